@@ -1,0 +1,23 @@
+/**
+ * Every physical constant the pipeline uses, once, with its source.
+ * Other modules import from here; no constant is typed twice.
+ */
+
+/** Speed of light in vacuum, km/s. Exact by definition of the metre (SI 2019; CODATA 2018). */
+export const SPEED_OF_LIGHT_KM_S = 299_792.458;
+
+/** Rydberg constant R∞ in 1/m. CODATA 2018 (Tiesinga et al. 2021, Rev. Mod. Phys. 93, 025010). */
+export const RYDBERG_INFINITY_PER_M = 10_973_731.568_16;
+
+/** Electron-to-proton mass ratio mₑ/mₚ. CODATA 2018. */
+export const ELECTRON_PROTON_MASS_RATIO = 5.446_170_214_87e-4;
+
+/** FWHM of a Gaussian in units of its standard deviation: 2·√(2 ln 2). Mathematical identity. */
+export const FWHM_PER_SIGMA = 2 * Math.sqrt(2 * Math.LN2);
+
+/** Nanometres per ångström and per micrometre (SI prefixes). */
+export const NM_PER_ANGSTROM = 0.1;
+export const NM_PER_MICROMETRE = 1000;
+
+/** Air/vacuum conversion is defined only above this vacuum wavelength (IAU convention, Morton 2000). */
+export const AIR_CONVERSION_MIN_NM = 200;

@@ -1,0 +1,110 @@
+/**
+ * The reduce stage: raw readings → vacuum, rest-frame wavelengths with uncertainties.
+ * Pure: a Session in, a Reduction (or diagnostics) out.
+ */
+import { FWHM_PER_SIGMA } from '../constants.js';
+import type { Diagnostic, Outcome } from '../diagnostics.js';
+import type { MeasurementMethod, Session } from '../session/types.js';
+import { airToVacuum, vacuumPerAirSlope, vacuumToAir } from './airVacuum.js';
+import { combineReadings } from './combine.js';
+import { reduceWavelengths } from './methods/wavelength.js';
+import { resolveKnownShift } from './shift.js';
+import type { MeasuredLine, MethodResult, Reduction } from './types.js';
+
+type MethodReducer = (session: Session) => MethodResult;
+
+const REDUCERS: Partial<Record<MeasurementMethod, MethodReducer>> = {
+  wavelength: reduceWavelengths,
+};
+
+export function reduceSession(session: Session): Outcome<Reduction> {
+  const reducer = REDUCERS[session.measurement.method];
+  if (!reducer) {
+    return {
+      ok: false,
+      diagnostics: [
+        {
+          file: session.file,
+          line: 1,
+          col: 1,
+          severity: 'error',
+          code: 'method-unsupported',
+          field: 'measurement.method',
+          message: `method ${session.measurement.method} cannot be reduced by this version`,
+          hint: 'use method: wavelength',
+        },
+      ],
+    };
+  }
+  const result = reducer(session);
+  const errors = result.diagnostics.filter((d) => d.severity === 'error');
+  if (errors.length > 0) return { ok: false, diagnostics: result.diagnostics };
+  const warnings: Diagnostic[] = result.diagnostics.filter((d) => d.severity !== 'error');
+
+  const sameAs = new Map<number, number>();
+  for (const line of session.lines) if (line.same_as !== null) sameAs.set(line.index, line.same_as);
+  const combined = combineReadings(result.readings, sameAs);
+
+  const shiftOutcome = resolveKnownShift(session);
+  if (!shiftOutcome.ok) return { ok: false, diagnostics: shiftOutcome.diagnostics };
+  const shift = shiftOutcome.value;
+  warnings.push(...shiftOutcome.warnings);
+  const z = shift?.z ?? 0;
+  const zSigma = shift?.z_sigma ?? 0;
+
+  const lines: MeasuredLine[] = combined.map((r) => {
+    const raw = session.lines[r.index]!;
+    const isAir = session.medium === 'air';
+    const vacuum_nm = isAir ? airToVacuum(r.wavelength_nm) : r.wavelength_nm;
+    const sigma_nm = isAir ? r.sigma_nm * vacuumPerAirSlope(r.wavelength_nm) : r.sigma_nm;
+    const rest_vacuum_nm = vacuum_nm / (1 + z);
+    // σ_rest² = (σ_obs/(1+z))² + (λ_obs σ_z/(1+z)²)²  (first-order propagation)
+    const rest_sigma_nm = Math.hypot(sigma_nm / (1 + z), (vacuum_nm * zSigma) / (1 + z) ** 2);
+    return {
+      index: r.index,
+      combined_indices: r.combined_indices,
+      combined_spread_nm: r.combined_spread_nm,
+      position: raw.position,
+      vacuum_nm,
+      air_nm: isAir ? r.wavelength_nm : vacuumToAir(r.wavelength_nm),
+      sigma_nm,
+      rest_vacuum_nm,
+      rest_sigma_nm,
+      intensity: raw.intensity,
+      kind: raw.kind,
+      width_nm: raw.width_nm,
+      label: raw.label,
+      reading_text: r.reading_text,
+    };
+  });
+
+  return {
+    ok: true,
+    value: {
+      session,
+      medium: session.medium,
+      lines,
+      calibration: result.calibration,
+      shift,
+      description: result.description,
+      resolution_nm: resolutionNm(session, lines),
+      warnings,
+    },
+    warnings,
+  };
+}
+
+/** FWHM in nm: given directly, or from the resolving power at the middle of the measured lines. */
+function resolutionNm(session: Session, lines: MeasuredLine[]): number | null {
+  if (session.instrument.resolution_nm !== null) return session.instrument.resolution_nm;
+  const power = session.instrument.resolving_power;
+  if (power === null || lines.length === 0) return null;
+  const sorted = lines.map((l) => l.vacuum_nm).sort((a, b) => a - b);
+  const middle = sorted[Math.floor(sorted.length / 2)]!;
+  return middle / power;
+}
+
+/** The Gaussian sigma equivalent of a FWHM. */
+export function sigmaFromFwhm(fwhm_nm: number): number {
+  return fwhm_nm / FWHM_PER_SIGMA;
+}

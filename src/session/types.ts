@@ -1,0 +1,103 @@
+/** The typed, normalised session that every later stage receives. */
+import type { SourcePosition } from '../diagnostics.js';
+import type { LINE_KINDS, METHODS, SOURCE_KINDS, WAVELENGTH_UNITS } from './schema.js';
+
+export type SourceKind = (typeof SOURCE_KINDS)[number];
+export type MeasurementMethod = (typeof METHODS)[number];
+export type WavelengthUnit = (typeof WAVELENGTH_UNITS)[number];
+export type LineKind = (typeof LINE_KINDS)[number];
+export type Medium = 'air' | 'vacuum';
+
+export type ShiftRequest =
+  | { mode: 'none' }
+  | { mode: 'velocity'; velocity_km_s: number; sigma_km_s: number }
+  | { mode: 'redshift'; z: number; sigma: number }
+  | { mode: 'velocity-search'; from_km_s: number; to_km_s: number }
+  | { mode: 'redshift-search'; from: number; to: number };
+
+export interface BarycentricRequest {
+  ra_deg: number;
+  dec_deg: number;
+}
+
+export interface GratingSpec {
+  spacing_nm: number;
+  spacing_sigma_nm: number;
+  type: 'transmission' | 'reflection';
+}
+
+export interface CalibrationPoint {
+  pixel: number;
+  pixel_sigma: number;
+  /** In the session's measurement unit and medium, as written. */
+  wavelength: number;
+  label: string | null;
+  position: SourcePosition;
+}
+
+export interface MeasurementSpec {
+  method: MeasurementMethod;
+  unit: WavelengthUnit;
+  /** Default reading uncertainty in the reading's own unit (nm/Å/µm, degrees, mm or px); null if not given. */
+  sigma: number | null;
+  grating: GratingSpec | null;
+  order: number;
+  incidence_deg: number;
+  screen_distance_mm: number | null;
+  screen_distance_sigma_mm: number;
+  calibration: {
+    points: CalibrationPoint[];
+    degree: number;
+    zero_order_pixel: number | null;
+    dispersion_nm_per_px: number | null;
+    pixel_size_um: number | null;
+    sensor_distance_mm: number | null;
+  } | null;
+}
+
+/** A raw reading, not yet reduced: exactly one of the position fields is set, per method. */
+export interface RawLine {
+  index: number;
+  position: SourcePosition;
+  wavelength: number | null;
+  angle_deg: number | null;
+  angle_left_deg: number | null;
+  angle_right_deg: number | null;
+  offset_mm: number | null;
+  separation_mm: number | null;
+  pixel: number | null;
+  /** Reading uncertainty in the reading's unit; null means "use the session default". */
+  sigma: number | null;
+  order: number | null;
+  same_as: number | null;
+  /** Relative intensity on a 0–∞ scale (words mapped to 1…5); null when not given. */
+  intensity: number | null;
+  kind: LineKind;
+  width_nm: number | null;
+  label: string | null;
+}
+
+export interface Session {
+  id: string;
+  file: string;
+  title: string;
+  date: string | null;
+  observer: string | null;
+  site: { name: string | null; lat: number | null; lon: number | null; elevation_m: number | null } | null;
+  source: { kind: SourceKind; name: string | null };
+  instrument: {
+    description: string | null;
+    resolution_nm: number | null;
+    resolving_power: number | null;
+    range_nm: [number, number] | null;
+  };
+  medium: Medium;
+  candidates: { groups: string[]; species: string[]; exclude: string[] };
+  shift: ShiftRequest;
+  barycentric: BarycentricRequest | null;
+  measurement: MeasurementSpec;
+  lines: RawLine[];
+  notes: string;
+  /** Hex SHA-256 of the file's bytes, for provenance. */
+  input_sha256: string;
+}

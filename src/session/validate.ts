@@ -1,0 +1,92 @@
+/**
+ * Schema validation with Ajv (the reference JSON Schema validator), its errors turned into
+ * diagnostics at the right file:line:col. `allErrors` so that every problem of a file is
+ * reported in one go.
+ */
+import { Ajv, type ErrorObject } from 'ajv';
+import type { Diagnostic } from '../diagnostics.js';
+import { type SessionDocument, SessionSchema } from './schema.js';
+import { didYouMean } from './suggest.js';
+import { type FieldPath, fieldName, type YamlSource } from './yamlSource.js';
+
+const ajv = new Ajv({ allErrors: true, verbose: true, strict: true, allowUnionTypes: true });
+ajv.addKeyword({ keyword: 'x-expect', schemaType: 'string' });
+const validateSession = ajv.compile<SessionDocument>(SessionSchema);
+
+function pathOf(instancePath: string): (string | number)[] {
+  if (!instancePath) return [];
+  return instancePath
+    .slice(1)
+    .split('/')
+    .map((raw) => raw.replace(/~1/g, '/').replace(/~0/g, '~'))
+    .map((part) => (/^\d+$/.test(part) ? Number(part) : part));
+}
+
+function expectText(error: ErrorObject): string | undefined {
+  const parent = error.parentSchema as Record<string, unknown> | undefined;
+  const text = parent?.['x-expect'];
+  return typeof text === 'string' ? text : undefined;
+}
+
+export function validateDocument(
+  source: YamlSource,
+  file: string,
+): { document: SessionDocument | null; diagnostics: Diagnostic[] } {
+  if (validateSession(source.data)) return { document: source.data, diagnostics: [] };
+  const errors = validateSession.errors ?? [];
+  const unions = errors.filter((e) => e.keyword === 'anyOf');
+  const shown = errors.filter(
+    (e) =>
+      !unions.some(
+        (u) => u !== e && e.schemaPath.startsWith(`${u.schemaPath}/`) && e.instancePath.startsWith(u.instancePath),
+      ),
+  );
+  const diagnostics = shown.map((e) => toDiagnostic(e, source, file));
+  return { document: null, diagnostics };
+}
+
+function toDiagnostic(error: ErrorObject, source: YamlSource, file: string): Diagnostic {
+  const path = pathOf(error.instancePath);
+  const base = { file, severity: 'error' as const };
+  switch (error.keyword) {
+    case 'additionalProperties': {
+      const key = String((error.params as { additionalProperty: string }).additionalProperty);
+      const keyPath: FieldPath = [...path, key];
+      const known = Object.keys(
+        ((error.parentSchema as { properties?: Record<string, unknown> }).properties ?? {}) as object,
+      );
+      const guess = didYouMean(key, known);
+      return {
+        ...base,
+        ...source.positionOf(keyPath, true),
+        code: 'unknown-key',
+        field: fieldName(keyPath),
+        message: `unknown key "${key}"`,
+        hint: guess ? `did you mean "${guess}"?` : `allowed here: ${known.join(', ')}`,
+      };
+    }
+    case 'required': {
+      const missing = String((error.params as { missingProperty: string }).missingProperty);
+      return {
+        ...base,
+        ...source.positionOf(path),
+        code: 'missing-key',
+        field: fieldName([...path, missing]),
+        message: `required key "${missing}" is missing`,
+        hint: missing === 'lineledger' ? 'add `lineledger: 1` as the first line' : `add "${missing}"`,
+      };
+    }
+    default: {
+      const expected = expectText(error);
+      const empty = error.keyword === 'minItems' && (error.params as { limit: number }).limit === 1;
+      return {
+        ...base,
+        ...source.positionOf(path),
+        code: empty ? 'empty-list' : 'invalid-value',
+        field: fieldName(path),
+        message: empty ? 'the list is empty' : expected ? `must be ${expected}` : (error.message ?? 'invalid value'),
+        hint: empty ? 'add at least one entry' : undefined,
+      };
+    }
+  }
+}
