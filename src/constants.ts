@@ -21,3 +21,16 @@ export const NM_PER_MICROMETRE = 1000;
 
 /** Air/vacuum conversion is defined only above this vacuum wavelength (IAU convention, Morton 2000). */
 export const AIR_CONVERSION_MIN_NM = 200;
+
+/** Astronomical unit in km. Exact by definition (IAU 2012 Resolution B2). */
+export const KM_PER_AU = 149_597_870.7;
+
+/** Seconds in one day of 86 400 SI seconds (the unit of astronomy-engine's AU/day velocities). */
+export const SECONDS_PER_DAY = 86_400;
+
+/** WGS 84 ellipsoid: equatorial radius (km) and flattening (NIMA TR8350.2, 3rd ed., 2000). */
+export const WGS84_EQUATORIAL_RADIUS_KM = 6378.137;
+export const WGS84_FLATTENING = 1 / 298.257_223_563;
+
+/** Nominal mean angular velocity of the Earth's rotation, rad/s (IERS Conventions 2010; WGS 84). */
+export const EARTH_ROTATION_RAD_S = 7.292_115e-5;

@@ -7,6 +7,9 @@ import type { Diagnostic, Outcome } from '../diagnostics.js';
 import type { MeasurementMethod, Session } from '../session/types.js';
 import { airToVacuum, vacuumPerAirSlope, vacuumToAir } from './airVacuum.js';
 import { combineReadings } from './combine.js';
+import { reduceGratingAngles } from './methods/gratingAngle.js';
+import { reducePixels } from './methods/pixel.js';
+import { reduceScreen } from './methods/screen.js';
 import { reduceWavelengths } from './methods/wavelength.js';
 import { resolveKnownShift } from './shift.js';
 import type { MeasuredLine, MethodResult, Reduction } from './types.js';
@@ -15,6 +18,9 @@ type MethodReducer = (session: Session) => MethodResult;
 
 const REDUCERS: Partial<Record<MeasurementMethod, MethodReducer>> = {
   wavelength: reduceWavelengths,
+  'grating-angle': reduceGratingAngles,
+  screen: reduceScreen,
+  pixel: reducePixels,
 };
 
 export function reduceSession(session: Session): Outcome<Reduction> {

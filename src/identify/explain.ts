@@ -1,0 +1,116 @@
+/**
+ * Mixtures: explain the session with the smallest set of species the evidence supports.
+ * Forward selection on the joint log-likelihood ratio with a penalty per added species
+ * (log of the number of candidates plus one nat: a prior that any one species is present,
+ * an information-criterion-style Occam factor), then the posterior over the explanations
+ * visited (the chosen set, each with one species dropped, added or swapped).
+ */
+import type { EvidenceContext } from './evidence.js';
+import { rankTerm } from './evidence.js';
+import { bestMatching } from './match.js';
+import type { ContendingExplanation, Match, PreparedSpecies, RefLine } from './types.js';
+
+export const MAX_SPECIES = 4;
+const MAX_POOL = 12;
+
+export function speciesPenalty(candidateCount: number): number {
+  return Math.log(Math.max(2, candidateCount)) + 1;
+}
+
+export interface ScoredSet {
+  species: string[];
+  total: number;
+  matches: Match[];
+}
+
+export function scoreSet(
+  set: readonly string[],
+  prepared: ReadonlyMap<string, PreparedSpecies>,
+  ctx: EvidenceContext,
+  penalty: number,
+): ScoredSet {
+  if (set.length === 0) return { species: [], total: 0, matches: [] };
+  const refs: RefLine[] = [];
+  const qs: number[] = [];
+  let missCost = 0;
+  for (const s of set) {
+    const p = prepared.get(s);
+    if (!p) continue;
+    missCost += p.missCost;
+    p.refs.forEach((r, k) => {
+      refs.push(r);
+      qs.push(p.q[k] as number);
+    });
+  }
+  const order = refs.map((_, k) => k).sort((a, b) => (refs[a] as RefLine).vacuum_nm - (refs[b] as RefLine).vacuum_nm);
+  const sortedRefs = order.map((k) => refs[k] as RefLine);
+  const q = Float64Array.from(order, (k) => qs[k] as number);
+  const { matches, gain } = bestMatching({
+    lines: ctx.points,
+    refs: sortedRefs,
+    refCentres: Float64Array.from(sortedRefs, (r) => r.vacuum_nm),
+    q,
+    fwhm_nm: ctx.fwhm_nm,
+    background_per_nm: ctx.background_per_nm,
+  });
+  let ranks = 0;
+  for (const s of set) ranks += rankTerm(matches.filter((m) => m.ref.species === s), ctx.intensities).term;
+  return { species: [...set].sort(), total: missCost + gain + ranks - penalty * set.length, matches };
+}
+
+export interface MixtureResult {
+  best: ScoredSet;
+  visited: ScoredSet[];
+}
+
+export function selectMixture(
+  singles: readonly { species: string; score: number }[],
+  prepared: ReadonlyMap<string, PreparedSpecies>,
+  ctx: EvidenceContext,
+  candidateCount: number,
+): MixtureResult {
+  const penalty = speciesPenalty(candidateCount);
+  const pool = singles
+    .filter((s) => s.score > 0)
+    .sort((a, b) => b.score - a.score || a.species.localeCompare(b.species))
+    .slice(0, MAX_POOL)
+    .map((s) => s.species);
+  const visited = new Map<string, ScoredSet>();
+  const score = (set: readonly string[]): ScoredSet => {
+    const key = [...set].sort().join('|');
+    const hit = visited.get(key);
+    if (hit) return hit;
+    const scored = scoreSet(set, prepared, ctx, penalty);
+    visited.set(key, scored);
+    return scored;
+  };
+  let current = score([]);
+  while (current.species.length < MAX_SPECIES) {
+    let next: ScoredSet | null = null;
+    for (const s of pool) {
+      if (current.species.includes(s)) continue;
+      const trial = score([...current.species, s]);
+      if (next === null || trial.total > next.total) next = trial;
+    }
+    if (next === null || next.total <= current.total) break;
+    current = next;
+  }
+  // Neighbours of the answer, so the posterior knows its rivals.
+  for (const s of current.species) score(current.species.filter((x) => x !== s));
+  for (const c of pool) {
+    if (current.species.includes(c)) continue;
+    score([...current.species, c]);
+    for (const s of current.species) score([...current.species.filter((x) => x !== s), c]);
+  }
+  return { best: current, visited: [...visited.values()] };
+}
+
+/** Posterior probabilities of the visited explanations (softmax of their totals). */
+export function posterior(visited: readonly ScoredSet[], temperature = 1): ContendingExplanation[] {
+  const max = Math.max(...visited.map((v) => v.total));
+  const weights = visited.map((v) => Math.exp((v.total - max) * temperature));
+  const sum = weights.reduce((a, b) => a + b, 0);
+  return visited
+    .map((v, i) => ({ species: v.species, score: v.total, probability: (weights[i] as number) / sum }))
+    .sort((a, b) => b.probability - a.probability || a.species.join().localeCompare(b.species.join()));
+}

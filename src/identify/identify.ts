@@ -1,0 +1,197 @@
+/**
+ * The identify stage: reduced lines + catalog → ranked candidates, an explanation and a
+ * line-by-line assignment. Pure.
+ */
+import { FWHM_PER_SIGMA } from '../constants.js';
+import type { Diagnostic } from '../diagnostics.js';
+import type { Catalog } from '../lines/types.js';
+import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
+import { residualVelocity_km_s } from '../reduce/doppler.js';
+import type { MeasuredLine, Reduction } from '../reduce/types.js';
+import { candidateSpecies, isTelluric } from './candidates.js';
+import { type EvidenceContext, evaluateSpecies } from './evidence.js';
+import { posterior, selectMixture } from './explain.js';
+import type { MeasuredPoint } from './match.js';
+import { pairSigma, WINDOW_SIGMAS } from './model.js';
+import { refsInRange } from './prepare.js';
+import { describeExplanation } from './summary.js';
+import type {
+  AssignedLine,
+  Explanation,
+  Identification,
+  IdentificationStatus,
+  PreparedSpecies,
+  RefLine,
+  SpeciesEvidence,
+} from './types.js';
+
+/** An explanation this probable or better is reported as identified; below, as ambiguous. */
+export const IDENTIFIED_THRESHOLD = 0.7;
+/** Lines a measurement gives no σ for are never narrower than this (avoids zero-width windows). */
+export const MIN_SIGMA_NM = 0.005;
+
+export function identify(reduction: Reduction, catalog: Catalog): { identification: Identification; warnings: Diagnostic[] } {
+  const { species: pool, warnings } = candidateSpecies(reduction.session, catalog);
+  const z = reduction.shift?.z ?? 0;
+  const sorted = [...reduction.lines].sort((a, b) => a.rest_vacuum_nm - b.rest_vacuum_nm || a.index - b.index);
+  const points: MeasuredPoint[] = sorted.map((l) => ({ vacuum_nm: l.rest_vacuum_nm, sigma_nm: Math.max(l.rest_sigma_nm, MIN_SIGMA_NM) }));
+  const sigmas = points.map((p) => p.sigma_nm).sort((a, b) => a - b);
+  const medianSigma = sigmas[Math.floor(sigmas.length / 2)] ?? 0.5;
+  const fwhm = reduction.resolution_nm !== null ? reduction.resolution_nm / (1 + z) : Math.max(FWHM_PER_SIGMA * medianSigma, 0.05);
+  const range = expectedRange(reduction, sorted, z, fwhm);
+  const ctx: EvidenceContext = {
+    points,
+    intensities: sorted.map((l) => l.intensity),
+    range_nm: range,
+    fwhm_nm: fwhm,
+    background_per_nm: Math.max(1, points.length) / (range[1] - range[0]),
+    medianSigma_nm: medianSigma,
+  };
+
+  const prepared = new Map<string, PreparedSpecies>();
+  const evidence: SpeciesEvidence[] = [];
+  for (const name of pool) {
+    const lines = catalog.species.get(name);
+    if (!lines) continue;
+    const telluric = isTelluric(catalog, name);
+    // Telluric lines arise in the observer's frame: compare them at observed wavelengths.
+    const scale = telluric ? 1 / (1 + z) : 1;
+    const refs = refsInRange(lines, range[0] / scale, range[1] / scale, fwhm / scale).map((r) =>
+      scale === 1 ? r : { ...r, vacuum_nm: r.vacuum_nm * scale },
+    );
+    if (refs.length === 0) continue;
+    const result = evaluateSpecies(name, refs, ctx, telluric);
+    prepared.set(name, result.prepared);
+    evidence.push(result.evidence);
+  }
+
+  const mixture = selectMixture(evidence, prepared, ctx, Math.max(pool.length, 2));
+  const contenders = posterior(mixture.visited);
+  for (const e of evidence) {
+    e.confidence = contenders.filter((c) => c.species.includes(e.species)).reduce((a, c) => a + c.probability, 0);
+  }
+  evidence.sort((a, b) => b.score - a.score || a.species.localeCompare(b.species));
+
+  const best = mixture.best;
+  const bestKey = best.species.join('|');
+  const confidence = contenders.find((c) => c.species.join('|') === bestKey)?.probability ?? 0;
+  const assignedByPoint = new Map(best.matches.map((m) => [m.line, m]));
+  const lines: AssignedLine[] = sorted.map((line, i) => {
+    const m = assignedByPoint.get(i);
+    return {
+      index: line.index,
+      assignment: m
+        ? {
+            species: m.ref.species,
+            ref_vacuum_nm: m.ref.vacuum_nm,
+            residual_nm: m.residual_nm,
+            residual_km_s: residualVelocity_km_s(m.residual_nm, m.ref.vacuum_nm),
+            blend: m.ref.members > 1,
+            flags: m.ref.flags,
+          }
+        : null,
+      alternatives: alternativesFor(points[i] as MeasuredPoint, m?.ref ?? null, prepared, evidence, fwhm),
+    };
+  });
+  lines.sort((a, b) => a.index - b.index);
+  const unexplained = lines.filter((l) => l.assignment === null).map((l) => l.index);
+  const status: IdentificationStatus =
+    best.species.length === 0 ? 'unexplained' : confidence >= IDENTIFIED_THRESHOLD ? 'identified' : 'ambiguous';
+  const shown = contenders.filter((c) => c.probability >= 0.01).slice(0, 5);
+  const discriminators =
+    status === 'ambiguous' ? findDiscriminators(best.species, shown, prepared, catalog, range, fwhm, points) : [];
+  const explanation: Explanation = {
+    species: best.species,
+    confidence,
+    status,
+    unexplained,
+    contenders: shown,
+    discriminators,
+    summary: '',
+  };
+  explanation.summary = describeExplanation(explanation, lines.length, reduction.medium);
+  return {
+    identification: { candidates: evidence, explanation, lines, considered: pool, range_nm: range, fwhm_nm: fwhm },
+    warnings,
+  };
+}
+
+/** Where lines were expected: the instrument's range (rest frame, vacuum) or the measured span padded. */
+function expectedRange(reduction: Reduction, sorted: MeasuredLine[], z: number, fwhm: number): [number, number] {
+  const given = reduction.session.instrument.range_nm;
+  if (given) {
+    const toVac = (x: number) => (reduction.medium === 'air' ? airToVacuum(x) : x);
+    return [toVac(given[0]) / (1 + z), toVac(given[1]) / (1 + z)];
+  }
+  const lo = sorted[0]?.rest_vacuum_nm ?? 400;
+  const hi = sorted.at(-1)?.rest_vacuum_nm ?? 700;
+  const pad = Math.max(10, 0.05 * (hi - lo), 5 * fwhm);
+  return [Math.max(1, lo - pad), hi + pad];
+}
+
+function alternativesFor(
+  point: MeasuredPoint,
+  chosen: RefLine | null,
+  prepared: ReadonlyMap<string, PreparedSpecies>,
+  evidence: readonly SpeciesEvidence[],
+  fwhm: number,
+) {
+  const out: { species: string; ref_vacuum_nm: number; residual_nm: number; pull: number }[] = [];
+  for (const e of evidence.slice(0, 12)) {
+    if (e.score <= 0 && e.confidence < 0.01) continue;
+    const p = prepared.get(e.species);
+    if (!p) continue;
+    for (const r of p.refs) {
+      if (r === chosen || r.species === chosen?.species) continue;
+      const sigma = pairSigma(point.sigma_nm, r.unc_nm, fwhm);
+      const d = point.vacuum_nm - r.vacuum_nm;
+      if (Math.abs(d) <= WINDOW_SIGMAS * sigma) out.push({ species: r.species, ref_vacuum_nm: r.vacuum_nm, residual_nm: d, pull: Math.abs(d) / sigma });
+    }
+  }
+  return out
+    .sort((a, b) => a.pull - b.pull || a.species.localeCompare(b.species))
+    .slice(0, 3)
+    .map(({ pull: _pull, ...rest }) => rest);
+}
+
+/** For each rival species, its strongest line in range that is far from every line of the chosen set. */
+function findDiscriminators(
+  chosen: readonly string[],
+  contenders: readonly { species: string[] }[],
+  prepared: ReadonlyMap<string, PreparedSpecies>,
+  catalog: Catalog,
+  range: [number, number],
+  fwhm: number,
+  measured: readonly MeasuredPoint[],
+): Explanation['discriminators'] {
+  const out: Explanation['discriminators'] = [];
+  const involved = new Set<string>();
+  for (const c of contenders) for (const s of c.species) involved.add(s);
+  for (const s of chosen) involved.add(s);
+  const seen = new Set<string>();
+  for (const c of contenders) {
+    const rivals = c.species.filter((s) => !chosen.includes(s));
+    const ours = chosen.filter((s) => !c.species.includes(s));
+    for (const [who, against] of [
+      ...rivals.map((r) => [r, ours.join(', ') || 'the chosen set'] as const),
+      ...ours.map((o) => [o, rivals.join(', ') || 'fewer species'] as const),
+    ]) {
+      if (seen.has(who)) continue;
+      seen.add(who);
+      const others = [...involved].filter((s) => s !== who).flatMap((s) => prepared.get(s)?.refs ?? []);
+      const mine = [...(prepared.get(who)?.refs ?? [])].sort((a, b) => b.intensity - a.intensity);
+      const line = mine.find(
+        (r) =>
+          r.vacuum_nm >= range[0] &&
+          r.vacuum_nm <= range[1] &&
+          others.every((o) => Math.abs(o.vacuum_nm - r.vacuum_nm) > 2 * fwhm) &&
+          // A line already measured settles nothing new: look for one that was not.
+          measured.every((p) => Math.abs(p.vacuum_nm - r.vacuum_nm) > WINDOW_SIGMAS * pairSigma(p.sigma_nm, r.unc_nm, fwhm)),
+      );
+      if (line && catalog.species.has(who)) {
+        out.push({ species: who, vacuum_nm: line.vacuum_nm, air_nm: vacuumToAir(line.vacuum_nm), against });
+      }
+    }
+  }
+  return out.slice(0, 4);
+}

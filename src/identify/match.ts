@@ -1,0 +1,77 @@
+/**
+ * Optimal one-to-one matching of measured lines to reference lines. Both lists lie on one
+ * axis and the gain falls with distance, so an optimal matching never crosses: a dynamic
+ * programme over the two sorted lists finds the maximum-gain matching exactly (not first-come).
+ * Only reference lines inside some line's window take part, found by binary search.
+ */
+import { lowerBound } from '../lines/search.js';
+import { matchGain, pairSigma, WINDOW_SIGMAS } from './model.js';
+import type { Match, RefLine } from './types.js';
+
+export interface MeasuredPoint {
+  vacuum_nm: number;
+  sigma_nm: number;
+}
+
+export interface MatchInput {
+  lines: readonly MeasuredPoint[];
+  refs: readonly RefLine[];
+  refCentres: Float64Array;
+  q: Float64Array;
+  fwhm_nm: number;
+  background_per_nm: number;
+}
+
+export function bestMatching(input: MatchInput): { matches: Match[]; gain: number } {
+  const { lines, refs, refCentres, q, fwhm_nm, background_per_nm } = input;
+  const n = lines.length;
+  // The reference lines any window touches, in order.
+  const touched = new Set<number>();
+  const maxUnc = refs.reduce((m, r) => Math.max(m, r.unc_nm), 0);
+  for (const line of lines) {
+    const half = WINDOW_SIGMAS * pairSigma(line.sigma_nm, maxUnc, fwhm_nm);
+    const start = lowerBound(refCentres, line.vacuum_nm - half);
+    for (let k = start; k < refs.length && (refCentres[k] as number) <= line.vacuum_nm + half; k++) touched.add(k);
+  }
+  const cols = [...touched].sort((a, b) => a - b);
+  const m = cols.length;
+  if (m === 0 || n === 0) return { matches: [], gain: 0 };
+
+  const gainOf = (i: number, c: number): number => {
+    const line = lines[i] as MeasuredPoint;
+    const ref = refs[cols[c] as number] as RefLine;
+    const sigma = pairSigma(line.sigma_nm, ref.unc_nm, fwhm_nm);
+    const delta = line.vacuum_nm - ref.vacuum_nm;
+    if (Math.abs(delta) > WINDOW_SIGMAS * sigma) return Number.NEGATIVE_INFINITY;
+    return matchGain(delta, sigma, q[cols[c] as number] as number, background_per_nm);
+  };
+
+  const width = m + 1;
+  const table = new Float64Array((n + 1) * width);
+  for (let i = 1; i <= n; i++) {
+    for (let c = 1; c <= m; c++) {
+      const skipLine = table[(i - 1) * width + c] as number;
+      const skipRef = table[i * width + c - 1] as number;
+      const g = gainOf(i - 1, c - 1);
+      const take = g > 0 ? (table[(i - 1) * width + c - 1] as number) + g : Number.NEGATIVE_INFINITY;
+      table[i * width + c] = Math.max(skipLine, skipRef, take);
+    }
+  }
+  const matches: Match[] = [];
+  let i = n;
+  let c = m;
+  while (i > 0 && c > 0) {
+    const here = table[i * width + c] as number;
+    if (here === (table[(i - 1) * width + c] as number)) i--;
+    else if (here === (table[i * width + c - 1] as number)) c--;
+    else {
+      const ref = refs[cols[c - 1] as number] as RefLine;
+      const line = lines[i - 1] as MeasuredPoint;
+      matches.push({ line: i - 1, ref, residual_nm: line.vacuum_nm - ref.vacuum_nm, gain: gainOf(i - 1, c - 1) });
+      i--;
+      c--;
+    }
+  }
+  matches.reverse();
+  return { matches, gain: table[n * width + m] as number };
+}

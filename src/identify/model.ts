@@ -1,0 +1,39 @@
+/**
+ * The likelihood model behind every score (docs/identification.md writes it out).
+ *
+ * Measured lines are a point process on the range [a, b] of length L. Under the null,
+ * all n lines are background, density β = n / L per nm. Under "species S is present",
+ * each reference line k of S in range is detected with probability q_k at a Gaussian
+ * position around its wavelength (σ_ik² = σ_i² + u_k² + (FWHM / (2·2.3548))², the last term
+ * a centroiding floor for the instrument's resolution — common practice); undetected lines
+ * cost log(1 − q_k). A one-to-one matching of measured to reference lines then gives
+ *
+ *   LLR(S) = Σ_unmatched k log(1 − q_k) + Σ_matched (i,k) [ log q_k + log N(Δ_ik; σ_ik) − log β ]
+ *
+ * so a dense species pays for all the lines it predicts but that are not there, and
+ * gains only log(q/(βσ√2π)) per match: numbers alone do not win.
+ */
+import { FWHM_PER_SIGMA } from '../constants.js';
+
+/** Detection probability of a reference line above the session's detection limit. */
+export const Q_STRONG = 0.9;
+/** …and below it (weak lines are sometimes seen, often not). */
+export const Q_WEAK = 0.12;
+/** Matches are allowed within this many σ. */
+export const WINDOW_SIGMAS = 3.5;
+/** Weight of the intensity-rank agreement term (nats per unit of ρ·(m − 1)/2). */
+export const RANK_WEIGHT = 1;
+
+export function pairSigma(lineSigma_nm: number, refUnc_nm: number, fwhm_nm: number): number {
+  const centroid = fwhm_nm / (2 * FWHM_PER_SIGMA);
+  return Math.sqrt(lineSigma_nm * lineSigma_nm + refUnc_nm * refUnc_nm + centroid * centroid);
+}
+
+const LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);
+
+/** Gain of matching a line at distance Δ from a reference line detected with probability q. */
+export function matchGain(delta_nm: number, sigma_nm: number, q: number, background_per_nm: number): number {
+  const z = delta_nm / sigma_nm;
+  const logDensity = -0.5 * z * z - Math.log(sigma_nm) - LOG_SQRT_2PI;
+  return Math.log(q) - Math.log1p(-q) + logDensity - Math.log(background_per_nm);
+}

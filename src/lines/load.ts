@@ -1,0 +1,36 @@
+/** The read edge for the catalog: the bundled data folder (or another) from disk. */
+import { readdirSync, readFileSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { Outcome } from '../diagnostics.js';
+import { type CatalogInput, parseCatalog } from './parse.js';
+import type { Catalog } from './types.js';
+
+/** The package's own data/ folder, found from this module's location (src/ or dist/). */
+export function bundledDataDir(): string {
+  return resolve(dirname(fileURLToPath(import.meta.url)), '..', '..', 'data');
+}
+
+export function readCatalogInput(dataDir: string = bundledDataDir()): CatalogInput {
+  const linesDir = join(dataDir, 'lines');
+  const names = readdirSync(linesDir)
+    .filter((n) => n.endsWith('.tsv'))
+    .sort();
+  const read = (path: string, name: string) => ({ name, text: readFileSync(path, 'utf8') });
+  let groupsYaml: CatalogInput['groupsYaml'] = null;
+  try {
+    groupsYaml = read(join(dataDir, 'groups.yaml'), 'groups.yaml');
+  } catch {
+    groupsYaml = null;
+  }
+  return {
+    version: readFileSync(join(linesDir, 'VERSION'), 'utf8'),
+    lineFiles: names.map((n) => read(join(linesDir, n), n)),
+    sourcesYaml: read(join(linesDir, 'sources.yaml'), 'sources.yaml'),
+    groupsYaml,
+  };
+}
+
+export function loadCatalog(dataDir?: string): Outcome<Catalog> {
+  return parseCatalog(readCatalogInput(dataDir));
+}

@@ -1,0 +1,50 @@
+/**
+ * Vega-Lite spec → inline SVG at build time (vega-lite compiles, vega renders headless with
+ * its SVG string renderer), so pages need no script. Element ids are rewritten with a prefix
+ * derived from the spec's hash: several charts share one page and ids must stay unique, and
+ * the same spec must always give the same bytes.
+ */
+import { createHash } from 'node:crypto';
+import { parse, View } from 'vega';
+import { compile, type TopLevelSpec } from 'vega-lite';
+
+export interface RenderedChart {
+  svg: string;
+  hash: string;
+}
+
+export type ChartCache = Map<string, string>;
+
+export function specHash(spec: TopLevelSpec): string {
+  return createHash('sha256').update(JSON.stringify(spec)).digest('hex').slice(0, 16);
+}
+
+export async function renderChart(spec: TopLevelSpec, cache?: ChartCache): Promise<RenderedChart> {
+  const hash = specHash(spec);
+  const hit = cache?.get(hash);
+  if (hit !== undefined) return { svg: hit, hash };
+  const vg = compile(spec).spec;
+  const view = new View(parse(vg), { renderer: 'none' });
+  const raw = await view.toSVG();
+  view.finalize();
+  const svg = stabiliseIds(raw, hash.slice(0, 8));
+  cache?.set(hash, svg);
+  return { svg, hash };
+}
+
+function stabiliseIds(svg: string, prefix: string): string {
+  const ids = new Map<string, string>();
+  svg.replace(/\sid="([^"]+)"/g, (_m, id: string) => {
+    if (!ids.has(id)) ids.set(id, `c${prefix}-${ids.size}`);
+    return '';
+  });
+  let out = svg;
+  for (const [id, next] of ids) {
+    const escaped = id.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+    out = out
+      .replace(new RegExp(`id="${escaped}"`, 'g'), `id="${next}"`)
+      .replace(new RegExp(`url\\(#${escaped}\\)`, 'g'), `url(#${next})`)
+      .replace(new RegExp(`href="#${escaped}"`, 'g'), `href="#${next}"`);
+  }
+  return out;
+}

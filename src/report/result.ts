@@ -1,0 +1,161 @@
+/**
+ * The machine-readable result (DESIGN.md's contract), stored as result.json beside each record
+ * and printed by `lineledger identify --json`. Field names are the contract: do not rename.
+ */
+import type { Identification } from '../identify/types.js';
+import type { Catalog } from '../lines/types.js';
+import type { CalibrationResult, Reduction } from '../reduce/types.js';
+
+export interface ResultJson {
+  format: 'lineledger-result/1';
+  id: string;
+  program: { name: 'lineledger'; version: string };
+  catalog: { version: string; sha256: string };
+  input: { file: string; sha256: string };
+  medium: 'air' | 'vacuum';
+  status: string;
+  summary: string;
+  lines: {
+    index: number;
+    label: string | null;
+    reading: string;
+    vacuum_nm: number;
+    air_nm: number;
+    sigma_nm: number;
+    rest_vacuum_nm: number;
+    rest_sigma_nm: number;
+    intensity: number | null;
+    kind: string;
+    combined_with: number[];
+    assignment: {
+      species: string;
+      ref_vacuum_nm: number;
+      residual_nm: number;
+      residual_km_s: number;
+      blend: boolean;
+    } | null;
+    alternatives: { species: string; ref_vacuum_nm: number; residual_nm: number }[];
+  }[];
+  candidates: {
+    species: string;
+    score: number;
+    confidence: number;
+    matched: number;
+    expected: number;
+    false_alarm: number;
+    rank_correlation: number | null;
+    rms_residual_nm: number | null;
+    missing_nm: number[];
+  }[];
+  explanation: {
+    species: string[];
+    unexplained: number[];
+    confidence: number;
+    status: string;
+    contenders: { species: string[]; probability: number }[];
+    discriminators: { species: string; vacuum_nm: number; air_nm: number; against: string }[];
+  };
+  shift: {
+    source: string;
+    z: number;
+    z_sigma: number;
+    velocity_km_s: number;
+    velocity_sigma_km_s: number;
+    barycentric: unknown;
+  } | null;
+  calibration: CalibrationResult | null;
+  range_nm: [number, number];
+  fwhm_nm: number;
+}
+
+/** Round to a fixed number of significant decimals so the JSON is stable and readable. */
+function r(x: number, digits = 6): number {
+  if (!Number.isFinite(x)) return x;
+  const f = 10 ** digits;
+  return Math.round(x * f) / f;
+}
+
+export function buildResult(
+  reduction: Reduction,
+  identification: Identification,
+  catalog: Catalog,
+  programVersion: string,
+): ResultJson {
+  const byIndex = new Map(identification.lines.map((l) => [l.index, l]));
+  return {
+    format: 'lineledger-result/1',
+    id: reduction.session.id,
+    program: { name: 'lineledger', version: programVersion },
+    catalog: { version: catalog.version, sha256: catalog.sha256 },
+    input: { file: reduction.session.file.replace(/^.*[\\/]/, ''), sha256: reduction.session.input_sha256 },
+    medium: reduction.medium,
+    status: identification.explanation.status,
+    summary: identification.explanation.summary,
+    lines: reduction.lines.map((l) => {
+      const a = byIndex.get(l.index);
+      return {
+        index: l.index,
+        label: l.label,
+        reading: l.reading_text,
+        vacuum_nm: r(l.vacuum_nm),
+        air_nm: r(l.air_nm),
+        sigma_nm: r(l.sigma_nm),
+        rest_vacuum_nm: r(l.rest_vacuum_nm),
+        rest_sigma_nm: r(l.rest_sigma_nm),
+        intensity: l.intensity,
+        kind: l.kind,
+        combined_with: l.combined_indices,
+        assignment: a?.assignment
+          ? {
+              species: a.assignment.species,
+              ref_vacuum_nm: r(a.assignment.ref_vacuum_nm),
+              residual_nm: r(a.assignment.residual_nm),
+              residual_km_s: r(a.assignment.residual_km_s, 3),
+              blend: a.assignment.blend,
+            }
+          : null,
+        alternatives: (a?.alternatives ?? []).map((x) => ({
+          species: x.species,
+          ref_vacuum_nm: r(x.ref_vacuum_nm),
+          residual_nm: r(x.residual_nm),
+        })),
+      };
+    }),
+    candidates: identification.candidates.map((c) => ({
+      species: c.species,
+      score: r(c.score, 3),
+      confidence: r(c.confidence, 4),
+      matched: c.matched,
+      expected: c.expected,
+      false_alarm: r(c.false_alarm, 6),
+      rank_correlation: c.rank_correlation === null ? null : r(c.rank_correlation, 3),
+      rms_residual_nm: c.rms_residual_nm === null ? null : r(c.rms_residual_nm),
+      missing_nm: c.missing_nm.map((x) => r(x, 4)),
+    })),
+    explanation: {
+      species: identification.explanation.species,
+      unexplained: identification.explanation.unexplained,
+      confidence: r(identification.explanation.confidence, 4),
+      status: identification.explanation.status,
+      contenders: identification.explanation.contenders.map((c) => ({ species: c.species, probability: r(c.probability, 4) })),
+      discriminators: identification.explanation.discriminators.map((d) => ({
+        ...d,
+        vacuum_nm: r(d.vacuum_nm, 4),
+        air_nm: r(d.air_nm, 4),
+      })),
+    },
+    shift: reduction.shift
+      ? {
+          source: reduction.shift.source,
+          z: r(reduction.shift.z, 8),
+          z_sigma: r(reduction.shift.z_sigma, 8),
+          velocity_km_s: r(reduction.shift.velocity_km_s, 4),
+          velocity_sigma_km_s: r(reduction.shift.velocity_sigma_km_s, 4),
+          barycentric: reduction.shift.barycentric,
+        }
+      : null,
+    calibration: reduction.calibration,
+    range_nm: [r(identification.range_nm[0], 4), r(identification.range_nm[1], 4)],
+    fwhm_nm: r(identification.fwhm_nm, 4),
+  };
+}

@@ -1,0 +1,203 @@
+/** One session's record page: the view model the template fills, and its charts. */
+import { formatDiagnosticLine } from '../diagnostics.js';
+import type { Identification } from '../identify/types.js';
+import type { Catalog } from '../lines/types.js';
+import type { Reduction } from '../reduce/types.js';
+import type { Session } from '../session/types.js';
+import { cautionsFor } from './cautions.js';
+import { type ChartCache, renderChart } from './charts/render.js';
+import { calibrationChart, residualChart, scoreChart, spectrumChart } from './charts/specs.js';
+import { display, fixed, percent, probability, speciesLabel } from './format.js';
+import { renderNotes } from './notes.js';
+import type { ResultJson } from './result.js';
+
+export interface SessionPageInput {
+  session: Session;
+  reduction: Reduction;
+  identification: Identification;
+  result: ResultJson;
+  catalog: Catalog;
+  warnings: string[];
+  buildOptions: string;
+  programVersion: string;
+}
+
+function instrumentText(s: Session): string {
+  const parts = [s.instrument.description ?? 'not described'];
+  if (s.instrument.resolution_nm !== null) parts.push(`resolution ${s.instrument.resolution_nm} nm FWHM`);
+  if (s.instrument.resolving_power !== null) parts.push(`resolving power ${s.instrument.resolving_power}`);
+  if (s.instrument.range_nm) parts.push(`range ${s.instrument.range_nm[0]}–${s.instrument.range_nm[1]} nm`);
+  return parts.join('; ');
+}
+
+function siteText(s: Session): string | null {
+  if (!s.site) return null;
+  const bits = [s.site.name];
+  if (s.site.lat !== null && s.site.lon !== null) bits.push(`${fixed(s.site.lat, 3)}°, ${fixed(s.site.lon, 3)}°`);
+  if (s.site.elevation_m !== null) bits.push(`${s.site.elevation_m} m`);
+  return bits.filter(Boolean).join(', ');
+}
+
+export async function sessionPageModel(input: SessionPageInput, cache: ChartCache): Promise<Record<string, unknown>> {
+  const { session, reduction, identification: idn, result, catalog } = input;
+  const medium = reduction.medium;
+  const unitLabel = `${medium} nm`;
+  const chosen = new Set(idn.explanation.species);
+  const bySessionIndex = new Map(idn.lines.map((l) => [l.index, l]));
+
+  // Spectrum: measured lines normalised to the strongest (or all equal), references by species.
+  const maxI = Math.max(0, ...reduction.lines.map((l) => l.intensity ?? 0));
+  const measured = reduction.lines.map((l) => ({
+    wavelength_nm: display(l.rest_vacuum_nm, medium),
+    height: maxI > 0 && l.intensity !== null ? 0.15 + 0.85 * (l.intensity / maxI) : 1,
+    label: `#${l.index + 1} ${fixed(display(l.rest_vacuum_nm, medium), 3)} nm`,
+  }));
+  const shownSpecies = idn.explanation.species.length > 0 ? idn.explanation.species : idn.candidates.slice(0, 1).map((c) => c.species);
+  const references: { wavelength_nm: number; height: number; species: string }[] = [];
+  for (const sp of shownSpecies) {
+    const lines = catalog.species.get(sp);
+    if (!lines) continue;
+    let top = 0;
+    for (let k = 0; k < lines.vacuum_nm.length; k++) {
+      const v = lines.vacuum_nm[k] as number;
+      if (v >= idn.range_nm[0] && v <= idn.range_nm[1]) top = Math.max(top, lines.intensity[k] as number);
+    }
+    for (let k = 0; k < lines.vacuum_nm.length; k++) {
+      const v = lines.vacuum_nm[k] as number;
+      if (v < idn.range_nm[0] || v > idn.range_nm[1]) continue;
+      references.push({ wavelength_nm: display(v, medium), height: -(0.15 + 0.85 * ((lines.intensity[k] as number) / (top || 1))), species: sp });
+    }
+  }
+  const range: [number, number] = [display(idn.range_nm[0], medium), display(idn.range_nm[1], medium)];
+  const spectrumTitle = `Measured lines (black, above) and reference lines of ${shownSpecies.join(', ') || 'no species'} (dashed, below), ${range[0].toFixed(0)}–${range[1].toFixed(0)} ${unitLabel}; the band shows the colour of each wavelength.`;
+  const spectrum = await renderChart(
+    spectrumChart({ title: spectrumTitle, unitLabel, range_nm: range, measured, references, species: shownSpecies }),
+    cache,
+  );
+
+  const residualPoints = idn.lines
+    .filter((l) => l.assignment)
+    .map((l) => {
+      const line = reduction.lines.find((m) => m.index === l.index);
+      return {
+        wavelength_nm: display(l.assignment?.ref_vacuum_nm ?? 0, medium),
+        residual_nm: l.assignment?.residual_nm ?? 0,
+        sigma_nm: line?.rest_sigma_nm ?? 0,
+        species: l.assignment?.species ?? '',
+      };
+    });
+  const residualTitle = `Residuals of the ${residualPoints.length} assigned lines (measured − reference) with ±1σ bars.`;
+  const residuals = residualPoints.length > 0 ? await renderChart(residualChart(residualTitle, unitLabel, residualPoints, shownSpecies), cache) : null;
+
+  const top = idn.candidates.slice(0, 8);
+  const scoresTitle = `Scores of the ${top.length} best candidates; the species of the explanation in blue.`;
+  const scores =
+    top.length > 0
+      ? await renderChart(scoreChart(scoresTitle, top.map((c) => ({ species: c.species, score: Number(c.score.toFixed(3)), chosen: chosen.has(c.species) }))), cache)
+      : null;
+
+  let calibration: Record<string, unknown> | null = null;
+  const cal = reduction.calibration;
+  if (cal) {
+    const [p0, p1] = cal.pixel_range;
+    const curve = Array.from({ length: 41 }, (_, i) => {
+      const p = p0 + ((p1 - p0) * i) / 40;
+      const t = p - cal.pixel_origin;
+      return { pixel: p, wavelength_nm: cal.coefficients.reduce((acc, c, k) => acc + c * t ** k, 0) };
+    });
+    const caption = `Calibration: ${cal.points.length} lines of known wavelength, degree-${cal.degree} fit (line) and residuals below; flagged outliers in orange.`;
+    const chart = cal.points.length > 0 ? await renderChart(calibrationChart(caption, cal.points, curve), cache) : null;
+    calibration = {
+      description: cal.description,
+      rms: fixed(cal.rms_nm, 4),
+      chart: chart?.svg ?? '',
+      caption,
+      points: cal.points.map((p) => ({
+        pixel: fixed(p.pixel, 2),
+        known: fixed(p.wavelength_nm, 4),
+        fitted: fixed(p.fitted_nm, 4),
+        residual: fixed(p.residual_nm, 4),
+        flag: p.outlier ? 'outlier (kept)' : '',
+      })),
+    };
+  }
+
+  const shift = reduction.shift
+    ? `z = ${reduction.shift.z.toPrecision(6)} ± ${reduction.shift.z_sigma.toPrecision(2)} (v = ${fixed(reduction.shift.velocity_km_s, 2)} ± ${fixed(reduction.shift.velocity_sigma_km_s, 2)} km/s), from the ${reduction.shift.source} given in the session${reduction.shift.barycentric ? `; barycentric correction ${fixed(reduction.shift.barycentric.correction_km_s, 3)} km/s (${reduction.shift.barycentric.method})` : ''}.`
+    : null;
+
+  const usedSources = new Set<string>();
+  for (const sp of idn.explanation.species) for (const s of catalog.species.get(sp)?.source ?? []) usedSources.add(s);
+  const sources = [...usedSources].sort().map((k) => catalog.sources.get(k)?.citation ?? k);
+
+  return {
+    title: session.title,
+    date: session.date,
+    observer: session.observer,
+    site: siteText(session),
+    source: `${session.source.kind}${session.source.name ? ` — ${session.source.name}` : ''}`,
+    instrument: instrumentText(session),
+    medium,
+    unitLabel,
+    status: idn.explanation.status,
+    summary: idn.explanation.summary,
+    discriminators: idn.explanation.discriminators.map((d) => ({
+      species: d.species,
+      against: d.against,
+      wavelength: fixed(medium === 'air' ? d.air_nm : d.vacuum_nm, 2),
+    })),
+    warnings: input.warnings,
+    cautions: cautionsFor(session.source.kind),
+    reduction: reduction.description,
+    shift,
+    lines: reduction.lines.map((l) => ({
+      number: l.combined_indices.length ? `${l.index + 1} (+${l.combined_indices.map((i) => i + 1).join(', ')})` : l.index + 1,
+      label: l.label ?? '',
+      reading: l.reading_text,
+      air: fixed(l.air_nm, 3),
+      vacuum: fixed(l.vacuum_nm, 3),
+      sigma: fixed(l.sigma_nm, 3),
+      intensity: l.intensity ?? '',
+      kind: l.kind,
+    })),
+    calibration,
+    charts: { spectrum: spectrum.svg, residuals: residuals?.svg ?? null, scores: scores?.svg ?? null },
+    captions: { spectrum: spectrumTitle, residuals: residualTitle, scores: scoresTitle },
+    assignments: reduction.lines.map((l) => {
+      const a = bySessionIndex.get(l.index);
+      const asg = a?.assignment;
+      return {
+        number: l.index + 1,
+        wavelength: fixed(display(l.rest_vacuum_nm, medium), 3),
+        species: asg ? speciesLabel(asg.species, asg.flags) + (asg.blend ? ' (blend)' : '') : 'unexplained',
+        reference: asg ? fixed(display(asg.ref_vacuum_nm, medium), 3) : '—',
+        residual_nm: asg ? fixed(asg.residual_nm, 3) : '—',
+        residual_km_s: asg ? fixed(asg.residual_km_s, 1) : '—',
+        alternatives:
+          (a?.alternatives ?? []).map((x) => `${x.species} ${fixed(display(x.ref_vacuum_nm, medium), 2)} (${fixed(x.residual_nm, 2)})`).join('; ') || '—',
+      };
+    }),
+    candidates: idn.candidates.slice(0, 15).map((c, i) => ({
+      rank: i + 1,
+      species: c.telluric ? `${c.species} (telluric)` : c.species,
+      chosen: chosen.has(c.species),
+      score: fixed(c.score, 2),
+      confidence: percent(c.confidence),
+      matched: c.matched,
+      expected: c.expected,
+      falseAlarm: probability(c.false_alarm),
+      missing: c.missing_nm.length ? c.missing_nm.slice(0, 5).map((x) => fixed(display(x, medium), 1)).join(', ') + (c.missing_nm.length > 5 ? ' …' : '') : '—',
+    })),
+    notesHtml: renderNotes(session.notes),
+    program: { version: input.programVersion },
+    catalog: { version: catalog.version, sha256: catalog.sha256 },
+    inputFile: result.input.file,
+    inputSha256: result.input.sha256,
+    buildOptions: input.buildOptions,
+    sources,
+  };
+}
+
+export function warningLines(warnings: readonly import('../diagnostics.js').Diagnostic[]): string[] {
+  return warnings.map(formatDiagnosticLine);
+}
