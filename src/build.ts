@@ -77,12 +77,19 @@ export function builtOnFromEpoch(epoch: string | undefined): string | null {
   return new Date(Number(epoch) * 1000).toISOString().slice(0, 10);
 }
 
-export async function buildSite(options: BuildOptions, catalog: Catalog, templates: Templates = loadTemplates()): Promise<BuildReport> {
+export async function buildSite(
+  options: BuildOptions,
+  catalog: Catalog,
+  templates: Templates = loadTemplates(),
+): Promise<BuildReport> {
   const paths = listSessionFiles(options.inputDir);
   const inputs = paths.map((p) => ({ path: p, bytes: readFileSync(p) }));
   const outcomes = rejectDuplicateIds(inputs.map((i) => runSession(i.path, i.bytes, catalog)));
   const files = await renderSite({
-    outcomes: outcomes.map((outcome, k) => ({ outcome, text: (inputs[k] as { bytes: Buffer }).bytes.toString('utf8') })),
+    outcomes: outcomes.map((outcome, k) => ({
+      outcome,
+      text: (inputs[k] as { bytes: Buffer }).bytes.toString('utf8'),
+    })),
     catalog,
     templates,
     settings: options.settings,

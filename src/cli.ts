@@ -76,7 +76,10 @@ function identifyCommand(file: string, opts: { json?: boolean }): number {
   return EXIT_OK;
 }
 
-async function buildCommand(dir: string, opts: { out: string; title: string; quiet?: boolean }): Promise<number> {
+async function buildCommand(
+  dir: string,
+  opts: { out: string; title: string; quiet?: boolean },
+): Promise<number> {
   const catalog = catalogOrExit();
   let report: Awaited<ReturnType<typeof buildSite>>;
   try {
@@ -107,7 +110,9 @@ async function buildCommand(dir: string, opts: { out: string; title: string; qui
   }
   const built = report.outcomes.length - report.failed;
   if (!opts.quiet || report.failed > 0) {
-    process.stderr.write(`lineledger: built ${built} of ${report.outcomes.length} sessions into ${opts.out}${report.failed ? `; ${report.failed} failed` : ''}\n`);
+    process.stderr.write(
+      `lineledger: built ${built} of ${report.outcomes.length} sessions into ${opts.out}${report.failed ? `; ${report.failed} failed` : ''}\n`,
+    );
   }
   return report.failed > 0 ? EXIT_PROBLEMS : EXIT_OK;
 }

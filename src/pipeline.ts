@@ -12,7 +12,14 @@ import { readSessionText } from './session/read.js';
 import type { Session } from './session/types.js';
 
 export type SessionOutcome =
-  | { ok: true; file: string; session: Session; reduction: Reduction; identification: Identification; warnings: Diagnostic[] }
+  | {
+      ok: true;
+      file: string;
+      session: Session;
+      reduction: Reduction;
+      identification: Identification;
+      warnings: Diagnostic[];
+    }
   | { ok: false; file: string; session: Session | null; diagnostics: Diagnostic[] };
 
 export function runSession(file: string, bytes: Uint8Array | string, catalog: Catalog): SessionOutcome {

@@ -11,17 +11,33 @@ export function isTelluric(catalog: Catalog, species: string): boolean {
   return lines !== undefined && lines.flags.length > 0 && lines.flags.every((f) => f.includes('telluric'));
 }
 
-export function candidateSpecies(session: Session, catalog: Catalog): { species: string[]; warnings: Diagnostic[] } {
+export function candidateSpecies(
+  session: Session,
+  catalog: Catalog,
+): { species: string[]; warnings: Diagnostic[] } {
   const warnings: Diagnostic[] = [];
   const warn = (field: string, message: string, hint: string) =>
-    warnings.push({ file: session.file, line: 1, col: 1, severity: 'warning', code: 'unknown-candidate', field, message, hint });
+    warnings.push({
+      file: session.file,
+      line: 1,
+      col: 1,
+      severity: 'warning',
+      code: 'unknown-candidate',
+      field,
+      message,
+      hint,
+    });
   const chosen = new Set<string>();
   const { groups, species, exclude } = session.candidates;
   groups.forEach((id, i) => {
     const group = catalog.groups.get(id);
     if (!group) {
       const guess = didYouMean(id, [...catalog.groups.keys()]);
-      warn(`candidates.groups[${i}]`, `there is no candidate group "${id}"`, guess ? `did you mean "${guess}"?` : `known groups: ${[...catalog.groups.keys()].join(', ')}`);
+      warn(
+        `candidates.groups[${i}]`,
+        `there is no candidate group "${id}"`,
+        guess ? `did you mean "${guess}"?` : `known groups: ${[...catalog.groups.keys()].join(', ')}`,
+      );
       return;
     }
     for (const s of group.species) chosen.add(s);
@@ -29,7 +45,11 @@ export function candidateSpecies(session: Session, catalog: Catalog): { species:
   species.forEach((name, i) => {
     if (!catalog.species.has(name)) {
       const guess = didYouMean(name, catalog.names);
-      warn(`candidates.species[${i}]`, `the catalog has no species "${name}"`, guess ? `did you mean "${guess}"?` : 'write it as element and ion stage, e.g. "Fe II"');
+      warn(
+        `candidates.species[${i}]`,
+        `the catalog has no species "${name}"`,
+        guess ? `did you mean "${guess}"?` : 'write it as element and ion stage, e.g. "Fe II"',
+      );
       return;
     }
     chosen.add(name);
@@ -43,7 +63,8 @@ export function candidateSpecies(session: Session, catalog: Catalog): { species:
     for (const s of catalog.names) if (isTelluric(catalog, s)) chosen.add(s);
   }
   exclude.forEach((name, i) => {
-    if (!catalog.species.has(name)) warn(`candidates.exclude[${i}]`, `the catalog has no species "${name}"`, 'check the spelling');
+    if (!catalog.species.has(name))
+      warn(`candidates.exclude[${i}]`, `the catalog has no species "${name}"`, 'check the spelling');
     chosen.delete(name);
   });
   return { species: [...chosen].sort(), warnings };

@@ -12,7 +12,8 @@ export function binomialUpperTail(n: number, p: number, k: number): number {
   if (p <= 0) return 0;
   if (p >= 1) return 1;
   let total = 0;
-  for (let i = k; i <= n; i++) total += Math.exp(logChoose(n, i) + i * Math.log(p) + (n - i) * Math.log1p(-p));
+  for (let i = k; i <= n; i++)
+    total += Math.exp(logChoose(n, i) + i * Math.log(p) + (n - i) * Math.log1p(-p));
   return Math.min(1, total);
 }
 
@@ -22,7 +23,8 @@ function logChoose(n: number, k: number): number {
 
 const FACTORIAL_CACHE: number[] = [0];
 function logFactorial(n: number): number {
-  for (let i = FACTORIAL_CACHE.length; i <= n; i++) FACTORIAL_CACHE[i] = (FACTORIAL_CACHE[i - 1] as number) + Math.log(i);
+  for (let i = FACTORIAL_CACHE.length; i <= n; i++)
+    FACTORIAL_CACHE[i] = (FACTORIAL_CACHE[i - 1] as number) + Math.log(i);
   return FACTORIAL_CACHE[n] as number;
 }
 

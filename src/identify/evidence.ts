@@ -30,14 +30,20 @@ function thresholdCandidates(refs: readonly RefLine[]): number[] {
   return picks;
 }
 
-export function detectionProbabilities(refs: readonly RefLine[], threshold: number): { q: Float64Array; missCost: number } {
+export function detectionProbabilities(
+  refs: readonly RefLine[],
+  threshold: number,
+): { q: Float64Array; missCost: number } {
   const q = Float64Array.from(refs, (r) => (r.intensity >= threshold ? Q_STRONG : Q_WEAK));
   let missCost = 0;
   for (const p of q) missCost += Math.log1p(-p);
   return { q, missCost };
 }
 
-export function rankTerm(matches: readonly Match[], intensities: readonly (number | null)[]): { term: number; rho: number | null } {
+export function rankTerm(
+  matches: readonly Match[],
+  intensities: readonly (number | null)[],
+): { term: number; rho: number | null } {
   const pairs = matches.filter((m) => intensities[m.line] !== null && intensities[m.line] !== undefined);
   const rho = spearman(
     pairs.map((m) => intensities[m.line] as number),
@@ -54,7 +60,8 @@ export function evaluateSpecies(
   telluric: boolean,
 ): { evidence: SpeciesEvidence; prepared: PreparedSpecies } {
   const refCentres = Float64Array.from(refs, (r) => r.vacuum_nm);
-  let best: { llr: number; threshold: number; q: Float64Array; missCost: number; matches: Match[] } | null = null;
+  let best: { llr: number; threshold: number; q: Float64Array; missCost: number; matches: Match[] } | null =
+    null;
   for (const threshold of thresholdCandidates(refs)) {
     const { q, missCost } = detectionProbabilities(refs, threshold);
     const { matches, gain } = bestMatching({
@@ -68,7 +75,13 @@ export function evaluateSpecies(
     const llr = missCost + gain + rankTerm(matches, ctx.intensities).term;
     if (best === null || llr > best.llr) best = { llr, threshold, q, missCost, matches };
   }
-  const chosen = best ?? { llr: 0, threshold: Number.POSITIVE_INFINITY, q: new Float64Array(), missCost: 0, matches: [] };
+  const chosen = best ?? {
+    llr: 0,
+    threshold: Number.POSITIVE_INFINITY,
+    q: new Float64Array(),
+    missCost: 0,
+    matches: [],
+  };
   const matchedRefs = new Set(chosen.matches.map((m) => m.ref));
   // Reported detection limit: the weakest reference line that was seen (the definition);
   // the score itself uses the profiled limit above.

@@ -42,7 +42,9 @@ export function scoreSet(
       qs.push(p.q[k] as number);
     });
   }
-  const order = refs.map((_, k) => k).sort((a, b) => (refs[a] as RefLine).vacuum_nm - (refs[b] as RefLine).vacuum_nm);
+  const order = refs
+    .map((_, k) => k)
+    .sort((a, b) => (refs[a] as RefLine).vacuum_nm - (refs[b] as RefLine).vacuum_nm);
   const sortedRefs = order.map((k) => refs[k] as RefLine);
   const q = Float64Array.from(order, (k) => qs[k] as number);
   const { matches, gain } = bestMatching({
@@ -54,7 +56,11 @@ export function scoreSet(
     background_per_nm: ctx.background_per_nm,
   });
   let ranks = 0;
-  for (const s of set) ranks += rankTerm(matches.filter((m) => m.ref.species === s), ctx.intensities).term;
+  for (const s of set)
+    ranks += rankTerm(
+      matches.filter((m) => m.ref.species === s),
+      ctx.intensities,
+    ).term;
   return { species: [...set].sort(), total: missCost + gain + ranks - penalty * set.length, matches };
 }
 

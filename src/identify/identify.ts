@@ -30,14 +30,25 @@ export const IDENTIFIED_THRESHOLD = 0.7;
 /** Lines a measurement gives no σ for are never narrower than this (avoids zero-width windows). */
 export const MIN_SIGMA_NM = 0.005;
 
-export function identify(reduction: Reduction, catalog: Catalog): { identification: Identification; warnings: Diagnostic[] } {
+export function identify(
+  reduction: Reduction,
+  catalog: Catalog,
+): { identification: Identification; warnings: Diagnostic[] } {
   const { species: pool, warnings } = candidateSpecies(reduction.session, catalog);
   const z = reduction.shift?.z ?? 0;
-  const sorted = [...reduction.lines].sort((a, b) => a.rest_vacuum_nm - b.rest_vacuum_nm || a.index - b.index);
-  const points: MeasuredPoint[] = sorted.map((l) => ({ vacuum_nm: l.rest_vacuum_nm, sigma_nm: Math.max(l.rest_sigma_nm, MIN_SIGMA_NM) }));
+  const sorted = [...reduction.lines].sort(
+    (a, b) => a.rest_vacuum_nm - b.rest_vacuum_nm || a.index - b.index,
+  );
+  const points: MeasuredPoint[] = sorted.map((l) => ({
+    vacuum_nm: l.rest_vacuum_nm,
+    sigma_nm: Math.max(l.rest_sigma_nm, MIN_SIGMA_NM),
+  }));
   const sigmas = points.map((p) => p.sigma_nm).sort((a, b) => a - b);
   const medianSigma = sigmas[Math.floor(sigmas.length / 2)] ?? 0.5;
-  const fwhm = reduction.resolution_nm !== null ? reduction.resolution_nm / (1 + z) : Math.max(FWHM_PER_SIGMA * medianSigma, 0.05);
+  const fwhm =
+    reduction.resolution_nm !== null
+      ? reduction.resolution_nm / (1 + z)
+      : Math.max(FWHM_PER_SIGMA * medianSigma, 0.05);
   const range = expectedRange(reduction, sorted, z, fwhm);
   const ctx: EvidenceContext = {
     points,
@@ -68,7 +79,9 @@ export function identify(reduction: Reduction, catalog: Catalog): { identificati
   const mixture = selectMixture(evidence, prepared, ctx, Math.max(pool.length, 2));
   const contenders = posterior(mixture.visited);
   for (const e of evidence) {
-    e.confidence = contenders.filter((c) => c.species.includes(e.species)).reduce((a, c) => a + c.probability, 0);
+    e.confidence = contenders
+      .filter((c) => c.species.includes(e.species))
+      .reduce((a, c) => a + c.probability, 0);
   }
   evidence.sort((a, b) => b.score - a.score || a.species.localeCompare(b.species));
 
@@ -96,10 +109,16 @@ export function identify(reduction: Reduction, catalog: Catalog): { identificati
   lines.sort((a, b) => a.index - b.index);
   const unexplained = lines.filter((l) => l.assignment === null).map((l) => l.index);
   const status: IdentificationStatus =
-    best.species.length === 0 ? 'unexplained' : confidence >= IDENTIFIED_THRESHOLD ? 'identified' : 'ambiguous';
+    best.species.length === 0
+      ? 'unexplained'
+      : confidence >= IDENTIFIED_THRESHOLD
+        ? 'identified'
+        : 'ambiguous';
   const shown = contenders.filter((c) => c.probability >= 0.01).slice(0, 5);
   const discriminators =
-    status === 'ambiguous' ? findDiscriminators(best.species, shown, prepared, catalog, range, fwhm, points) : [];
+    status === 'ambiguous'
+      ? findDiscriminators(best.species, shown, prepared, catalog, range, fwhm, points)
+      : [];
   const explanation: Explanation = {
     species: best.species,
     confidence,
@@ -111,13 +130,25 @@ export function identify(reduction: Reduction, catalog: Catalog): { identificati
   };
   explanation.summary = describeExplanation(explanation, lines.length, reduction.medium);
   return {
-    identification: { candidates: evidence, explanation, lines, considered: pool, range_nm: range, fwhm_nm: fwhm },
+    identification: {
+      candidates: evidence,
+      explanation,
+      lines,
+      considered: pool,
+      range_nm: range,
+      fwhm_nm: fwhm,
+    },
     warnings,
   };
 }
 
 /** Where lines were expected: the instrument's range (rest frame, vacuum) or the measured span padded. */
-function expectedRange(reduction: Reduction, sorted: MeasuredLine[], z: number, fwhm: number): [number, number] {
+function expectedRange(
+  reduction: Reduction,
+  sorted: MeasuredLine[],
+  z: number,
+  fwhm: number,
+): [number, number] {
   const given = reduction.session.instrument.range_nm;
   if (given) {
     const toVac = (x: number) => (reduction.medium === 'air' ? airToVacuum(x) : x);
@@ -145,7 +176,13 @@ function alternativesFor(
       if (r === chosen || r.species === chosen?.species) continue;
       const sigma = pairSigma(point.sigma_nm, r.unc_nm, fwhm);
       const d = point.vacuum_nm - r.vacuum_nm;
-      if (Math.abs(d) <= WINDOW_SIGMAS * sigma) out.push({ species: r.species, ref_vacuum_nm: r.vacuum_nm, residual_nm: d, pull: Math.abs(d) / sigma });
+      if (Math.abs(d) <= WINDOW_SIGMAS * sigma)
+        out.push({
+          species: r.species,
+          ref_vacuum_nm: r.vacuum_nm,
+          residual_nm: d,
+          pull: Math.abs(d) / sigma,
+        });
     }
   }
   return out
@@ -186,7 +223,10 @@ function findDiscriminators(
           r.vacuum_nm <= range[1] &&
           others.every((o) => Math.abs(o.vacuum_nm - r.vacuum_nm) > 2 * fwhm) &&
           // A line already measured settles nothing new: look for one that was not.
-          measured.every((p) => Math.abs(p.vacuum_nm - r.vacuum_nm) > WINDOW_SIGMAS * pairSigma(p.sigma_nm, r.unc_nm, fwhm)),
+          measured.every(
+            (p) =>
+              Math.abs(p.vacuum_nm - r.vacuum_nm) > WINDOW_SIGMAS * pairSigma(p.sigma_nm, r.unc_nm, fwhm),
+          ),
       );
       if (line && catalog.species.has(who)) {
         out.push({ species: who, vacuum_nm: line.vacuum_nm, air_nm: vacuumToAir(line.vacuum_nm), against });

@@ -31,7 +31,8 @@ export function bestMatching(input: MatchInput): { matches: Match[]; gain: numbe
   for (const line of lines) {
     const half = WINDOW_SIGMAS * pairSigma(line.sigma_nm, maxUnc, fwhm_nm);
     const start = lowerBound(refCentres, line.vacuum_nm - half);
-    for (let k = start; k < refs.length && (refCentres[k] as number) <= line.vacuum_nm + half; k++) touched.add(k);
+    for (let k = start; k < refs.length && (refCentres[k] as number) <= line.vacuum_nm + half; k++)
+      touched.add(k);
   }
   const cols = [...touched].sort((a, b) => a - b);
   const m = cols.length;
@@ -67,7 +68,12 @@ export function bestMatching(input: MatchInput): { matches: Match[]; gain: numbe
     else {
       const ref = refs[cols[c - 1] as number] as RefLine;
       const line = lines[i - 1] as MeasuredPoint;
-      matches.push({ line: i - 1, ref, residual_nm: line.vacuum_nm - ref.vacuum_nm, gain: gainOf(i - 1, c - 1) });
+      matches.push({
+        line: i - 1,
+        ref,
+        residual_nm: line.vacuum_nm - ref.vacuum_nm,
+        gain: gainOf(i - 1, c - 1),
+      });
       i--;
       c--;
     }

@@ -39,7 +39,8 @@ export function refsInRange(lines: SpeciesLines, from_nm: number, to_nm: number,
   };
   for (let k = start; k < end; k++) {
     const prev = group.at(-1);
-    if (prev !== undefined && (lines.vacuum_nm[k] as number) - (lines.vacuum_nm[prev] as number) >= fwhm_nm) flush();
+    if (prev !== undefined && (lines.vacuum_nm[k] as number) - (lines.vacuum_nm[prev] as number) >= fwhm_nm)
+      flush();
     group.push(k);
   }
   flush();

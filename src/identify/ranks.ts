@@ -6,7 +6,11 @@ function ranks(values: readonly number[]): number[] {
   let i = 0;
   while (i < order.length) {
     let j = i;
-    while (j + 1 < order.length && (order[j + 1] as readonly [number, number])[0] === (order[i] as readonly [number, number])[0]) j++;
+    while (
+      j + 1 < order.length &&
+      (order[j + 1] as readonly [number, number])[0] === (order[i] as readonly [number, number])[0]
+    )
+      j++;
     const avg = (i + j) / 2 + 1;
     for (let k = i; k <= j; k++) out[(order[k] as readonly [number, number])[1]] = avg;
     i = j + 1;

@@ -36,7 +36,8 @@ export function describeExplanation(e: Explanation, lineCount: number, medium: M
         .join(' or ');
       const decide = e.discriminators[0];
       const unit = medium === 'air' ? decide?.air_nm : decide?.vacuum_nm;
-      const hint = decide && unit !== undefined ? ` — measure ${unit.toFixed(1)} nm (${decide.species}) to decide` : '';
+      const hint =
+        decide && unit !== undefined ? ` — measure ${unit.toFixed(1)} nm (${decide.species}) to decide` : '';
       return `Ambiguous between ${rivals}${hint}; best guess ${list(e.species)} (${percent(e.confidence)}); ${unexplained}.`;
     }
   }

@@ -5,9 +5,25 @@
 import { createHash } from 'node:crypto';
 import { parse as parseYaml } from 'yaml';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
-import type { CandidateGroup, Catalog, CatalogFile, LineOrigin, SourceCitation, SpeciesLines } from './types.js';
+import type {
+  CandidateGroup,
+  Catalog,
+  CatalogFile,
+  LineOrigin,
+  SourceCitation,
+  SpeciesLines,
+} from './types.js';
 
-export const CATALOG_COLUMNS = ['species', 'vacuum_nm', 'air_nm', 'unc_nm', 'intensity', 'flags', 'source', 'origin'];
+export const CATALOG_COLUMNS = [
+  'species',
+  'vacuum_nm',
+  'air_nm',
+  'unc_nm',
+  'intensity',
+  'flags',
+  'source',
+  'origin',
+];
 
 interface Row {
   species: string;
@@ -88,7 +104,11 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
 
 type Problem = (file: string, line: number, col: number, field: string, message: string) => void;
 
-function parseLineFile(file: CatalogFile, sources: ReadonlyMap<string, SourceCitation>, problem: Problem): Row[] {
+function parseLineFile(
+  file: CatalogFile,
+  sources: ReadonlyMap<string, SourceCitation>,
+  problem: Problem,
+): Row[] {
   const rows: Row[] = [];
   let header: string[] | null = null;
   const lines = file.text.split(/\r?\n/);
@@ -104,22 +124,39 @@ function parseLineFile(file: CatalogFile, sources: ReadonlyMap<string, SourceCit
       return;
     }
     if (cells.length !== CATALOG_COLUMNS.length) {
-      problem(file.name, lineNo, 1, 'row', `expected ${CATALOG_COLUMNS.length} tab-separated cells, found ${cells.length}`);
+      problem(
+        file.name,
+        lineNo,
+        1,
+        'row',
+        `expected ${CATALOG_COLUMNS.length} tab-separated cells, found ${cells.length}`,
+      );
       return;
     }
     const [species, vac, air, unc, intensity, flags, source, origin] = cells as [
-      string, string, string, string, string, string, string, string,
+      string,
+      string,
+      string,
+      string,
+      string,
+      string,
+      string,
+      string,
     ];
     const col = (k: number) => cells.slice(0, k).reduce((n, c) => n + c.length + 1, 1);
     const num = (s: string, k: number, field: string, allowDash = false): number => {
       if (allowDash && s === '-') return Number.NaN;
       const v = Number(s);
-      if (!/^\d+(\.\d+)?$/.test(s) || !(v > 0)) problem(file.name, lineNo, col(k), field, `"${s}" is not a positive decimal number`);
+      if (!/^\d+(\.\d+)?$/.test(s) || !(v > 0))
+        problem(file.name, lineNo, col(k), field, `"${s}" is not a positive decimal number`);
       return v;
     };
-    if (!/^\S.*\S$|^\S$/.test(species)) problem(file.name, lineNo, 1, 'species', 'species is empty or padded');
-    if (!sources.has(source)) problem(file.name, lineNo, col(6), 'source', `source key "${source}" is not in sources.yaml`);
-    if (origin !== 'read' && origin !== 'memory') problem(file.name, lineNo, col(7), 'origin', 'origin must be read or memory');
+    if (!/^\S.*\S$|^\S$/.test(species))
+      problem(file.name, lineNo, 1, 'species', 'species is empty or padded');
+    if (!sources.has(source))
+      problem(file.name, lineNo, col(6), 'source', `source key "${source}" is not in sources.yaml`);
+    if (origin !== 'read' && origin !== 'memory')
+      problem(file.name, lineNo, col(7), 'origin', 'origin must be read or memory');
     rows.push({
       species,
       vacuum_nm: num(vac, 1, 'vacuum_nm'),
@@ -146,12 +183,18 @@ function parseSources(file: CatalogFile, problem: Problem): Map<string, SourceCi
     return out;
   }
   if (typeof data !== 'object' || data === null) return out;
-  for (const [key, value] of Object.entries(data as Record<string, { citation?: unknown; intensity?: unknown }>)) {
+  for (const [key, value] of Object.entries(
+    data as Record<string, { citation?: unknown; intensity?: unknown }>,
+  )) {
     if (typeof value?.citation !== 'string') {
       problem(file.name, 1, 1, key, `source "${key}" has no citation`);
       continue;
     }
-    out.set(key, { key, citation: value.citation, intensity: typeof value.intensity === 'string' ? value.intensity : '' });
+    out.set(key, {
+      key,
+      citation: value.citation,
+      intensity: typeof value.intensity === 'string' ? value.intensity : '',
+    });
   }
   return out;
 }
@@ -163,7 +206,10 @@ function parseGroups(
 ): { groups: Map<string, CandidateGroup>; defaults: Map<string, string[]> } {
   const groups = new Map<string, CandidateGroup>();
   const defaults = new Map<string, string[]>();
-  let data: { groups?: Record<string, Partial<CandidateGroup>>; defaults_by_source_kind?: Record<string, string[]> };
+  let data: {
+    groups?: Record<string, Partial<CandidateGroup>>;
+    defaults_by_source_kind?: Record<string, string[]>;
+  };
   try {
     data = parseYaml(file.text) ?? {};
   } catch (e) {
@@ -173,10 +219,18 @@ function parseGroups(
   for (const [id, g] of Object.entries(data.groups ?? {})) {
     const list = Array.isArray(g.species) ? g.species.map(String) : [];
     const known = list.filter((s) => species.has(s));
-    groups.set(id, { id, title: String(g.title ?? id), description: String(g.description ?? ''), species: known });
+    groups.set(id, {
+      id,
+      title: String(g.title ?? id),
+      description: String(g.description ?? ''),
+      species: known,
+    });
   }
   for (const [kind, ids] of Object.entries(data.defaults_by_source_kind ?? {})) {
-    defaults.set(kind, (ids ?? []).filter((id) => groups.has(id)));
+    defaults.set(
+      kind,
+      (ids ?? []).filter((id) => groups.has(id)),
+    );
   }
   return { groups, defaults };
 }

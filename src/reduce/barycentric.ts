@@ -44,9 +44,10 @@ export function barycentricCorrectionKmS(input: BarycentricInput): number {
   // Longitudes up to 360° are allowed in the session file; the Observer wants −180…180.
   const lon = ((((input.lon_deg + 180) % 360) + 360) % 360) - 180;
   const site = ObserverState(time, new Observer(input.lat_deg, lon, input.elevation_m), false);
-  const n = unitVector(input.ra_deg, input.dec_deg);
-  const v = [earth.vx + site.vx, earth.vy + site.vy, earth.vz + site.vz];
-  return (v[0]! * n[0] + v[1]! * n[1] + v[2]! * n[2]) * KM_S_PER_AU_DAY;
+  const [nx, ny, nz] = unitVector(input.ra_deg, input.dec_deg);
+  return (
+    ((earth.vx + site.vx) * nx + (earth.vy + site.vy) * ny + (earth.vz + site.vz) * nz) * KM_S_PER_AU_DAY
+  );
 }
 
 /**
@@ -55,7 +56,9 @@ export function barycentricCorrectionKmS(input: BarycentricInput): number {
  * the correction by up to ±0.46 km/s over a day.
  */
 export function parseUtcDateTime(text: string): Date | null {
-  const m = /^(\d{4}-\d{2}-\d{2})[T ](\d{2}:\d{2}(?::\d{2}(?:\.\d+)?)?)(Z|[+-]\d{2}:?\d{2})?$/.exec(text.trim());
+  const m = /^(\d{4}-\d{2}-\d{2})[T ](\d{2}:\d{2}(?::\d{2}(?:\.\d+)?)?)(Z|[+-]\d{2}:?\d{2})?$/.exec(
+    text.trim(),
+  );
   if (!m) return null;
   let zone = m[3] ?? 'Z';
   if (/^[+-]\d{4}$/.test(zone)) zone = `${zone.slice(0, 3)}:${zone.slice(3)}`;
@@ -69,15 +72,37 @@ export function sessionBarycentricCorrection(session: Session): Outcome<Barycent
   if (!request) return { ok: true, value: null, warnings: [] };
   const problems: Diagnostic[] = [];
   const problem = (field: string, message: string, hint: string) =>
-    problems.push({ file: session.file, line: 1, col: 1, severity: 'error', code: 'barycentric-input', field, message, hint });
+    problems.push({
+      file: session.file,
+      line: 1,
+      col: 1,
+      severity: 'error',
+      code: 'barycentric-input',
+      field,
+      message,
+      hint,
+    });
   const date = session.date === null ? null : parseUtcDateTime(session.date);
-  if (date === null) problem('date', 'a barycentric correction needs a UTC date-time', 'write date: 2026-03-14T21:30:00Z');
+  if (date === null)
+    problem('date', 'a barycentric correction needs a UTC date-time', 'write date: 2026-03-14T21:30:00Z');
   const lat = session.site?.lat ?? null;
   const lon = session.site?.lon ?? null;
-  if (lat === null || lon === null) problem('site', 'a barycentric correction needs site.lat and site.lon', 'add the site latitude and longitude in degrees');
+  if (lat === null || lon === null)
+    problem(
+      'site',
+      'a barycentric correction needs site.lat and site.lon',
+      'add the site latitude and longitude in degrees',
+    );
   if (date === null || lat === null || lon === null) return { ok: false, diagnostics: problems };
   const elevation_m = session.site?.elevation_m ?? 0;
-  const correction_km_s = barycentricCorrectionKmS({ ra_deg: request.ra_deg, dec_deg: request.dec_deg, date, lat_deg: lat, lon_deg: lon, elevation_m });
+  const correction_km_s = barycentricCorrectionKmS({
+    ra_deg: request.ra_deg,
+    dec_deg: request.dec_deg,
+    date,
+    lat_deg: lat,
+    lon_deg: lon,
+    elevation_m,
+  });
   return {
     ok: true,
     value: {

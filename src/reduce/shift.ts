@@ -34,7 +34,9 @@ function applied(
 ): AppliedShift {
   const z = barycentric ? topocentricRedshift(z_bary, barycentric.correction_km_s) : z_bary;
   // The correction is known to m/s: σ_z carries over by the (constant) factor dz_topo/dz_bary.
-  const z_sigma = barycentric ? z_sigma_bary * (1 + redshiftFromVelocity(-barycentric.correction_km_s)) : z_sigma_bary;
+  const z_sigma = barycentric
+    ? z_sigma_bary * (1 + redshiftFromVelocity(-barycentric.correction_km_s))
+    : z_sigma_bary;
   return {
     source,
     z,
@@ -66,7 +68,14 @@ export function resolveKnownShift(session: Session): Outcome<AppliedShift | null
       return {
         ok: true,
         value: correction
-          ? { source: 'search', z: 0, z_sigma: 0, velocity_km_s: 0, velocity_sigma_km_s: 0, barycentric: correction }
+          ? {
+              source: 'search',
+              z: 0,
+              z_sigma: 0,
+              velocity_km_s: 0,
+              velocity_sigma_km_s: 0,
+              barycentric: correction,
+            }
           : null,
         warnings,
       };

@@ -31,8 +31,12 @@ const BY_KIND: Record<SourceKind, string[]> = {
     'Never look into a laser beam or its reflections, and never point one at people, vehicles or aircraft; use the laser class your local rules allow, with the eyewear they require.',
     'Remove watches and rings, keep beams below eye level, and block stray reflections from the grating.',
   ],
-  other: ['Identify the hazards of the source before you measure it (electricity, UV, heat, chemicals, bright light).'],
-  unknown: ['Identify the hazards of the source before you measure it (electricity, UV, heat, chemicals, bright light).'],
+  other: [
+    'Identify the hazards of the source before you measure it (electricity, UV, heat, chemicals, bright light).',
+  ],
+  unknown: [
+    'Identify the hazards of the source before you measure it (electricity, UV, heat, chemicals, bright light).',
+  ],
 };
 
 export function cautionsFor(kind: SourceKind): string[] {

@@ -13,7 +13,10 @@ function lobe(x: number, mu: number, s1: number, s2: number): number {
 
 export function cie1931(wavelength_nm: number): [number, number, number] {
   const l = wavelength_nm;
-  const x = 1.056 * lobe(l, 599.8, 37.9, 31.0) + 0.362 * lobe(l, 442.0, 16.0, 26.7) - 0.065 * lobe(l, 501.1, 20.4, 26.2);
+  const x =
+    1.056 * lobe(l, 599.8, 37.9, 31.0) +
+    0.362 * lobe(l, 442.0, 16.0, 26.7) -
+    0.065 * lobe(l, 501.1, 20.4, 26.2);
   const y = 0.821 * lobe(l, 568.8, 46.9, 40.5) + 0.286 * lobe(l, 530.9, 16.3, 31.1);
   const z = 1.217 * lobe(l, 437.0, 11.8, 36.0) + 0.681 * lobe(l, 459.0, 26.0, 13.8);
   return [x, y, z];
@@ -38,7 +41,13 @@ export function wavelengthToHex(wavelength_nm: number): string {
   if (peak <= 1e-4) return '#222222';
   // Brightness follows the luminance Y so the ends of the spectrum fade as they do to the eye.
   const scale = Math.min(1, Y * 1.6 + 0.15) / peak;
-  const hex = [r, g, b].map((c) => encode(c * scale).toString(16).padStart(2, '0')).join('');
+  const hex = [r, g, b]
+    .map((c) =>
+      encode(c * scale)
+        .toString(16)
+        .padStart(2, '0'),
+    )
+    .join('');
   return `#${hex}`;
 }
 
@@ -46,4 +55,12 @@ export function wavelengthToHex(wavelength_nm: number): string {
  * Okabe & Ito (2008), "Color Universal Design", a palette colour-blind readers can tell apart
  * (hex values from memory). Black is left out: it is the measured lines' colour.
  */
-export const SPECIES_PALETTE = ['#0072B2', '#D55E00', '#009E73', '#CC79A7', '#E69F00', '#56B4E9', '#F0E442'] as const;
+export const SPECIES_PALETTE = [
+  '#0072B2',
+  '#D55E00',
+  '#009E73',
+  '#CC79A7',
+  '#E69F00',
+  '#56B4E9',
+  '#F0E442',
+] as const;

@@ -10,15 +10,40 @@ function cell(v: string | number | null | undefined): string {
 
 export function linesCsv(result: ResultJson): string {
   const head = [
-    'index', 'label', 'reading', 'air_nm', 'vacuum_nm', 'sigma_nm', 'rest_vacuum_nm', 'intensity', 'kind',
-    'species', 'ref_vacuum_nm', 'residual_nm', 'residual_km_s', 'alternatives',
+    'index',
+    'label',
+    'reading',
+    'air_nm',
+    'vacuum_nm',
+    'sigma_nm',
+    'rest_vacuum_nm',
+    'intensity',
+    'kind',
+    'species',
+    'ref_vacuum_nm',
+    'residual_nm',
+    'residual_km_s',
+    'alternatives',
   ];
   const rows = result.lines.map((l) =>
     [
-      l.index, l.label, l.reading, l.air_nm, l.vacuum_nm, l.sigma_nm, l.rest_vacuum_nm, l.intensity, l.kind,
-      l.assignment?.species ?? '', l.assignment?.ref_vacuum_nm ?? '', l.assignment?.residual_nm ?? '',
-      l.assignment?.residual_km_s ?? '', l.alternatives.map((a) => `${a.species} ${a.ref_vacuum_nm}`).join('; '),
-    ].map(cell).join(','),
+      l.index,
+      l.label,
+      l.reading,
+      l.air_nm,
+      l.vacuum_nm,
+      l.sigma_nm,
+      l.rest_vacuum_nm,
+      l.intensity,
+      l.kind,
+      l.assignment?.species ?? '',
+      l.assignment?.ref_vacuum_nm ?? '',
+      l.assignment?.residual_nm ?? '',
+      l.assignment?.residual_km_s ?? '',
+      l.alternatives.map((a) => `${a.species} ${a.ref_vacuum_nm}`).join('; '),
+    ]
+      .map(cell)
+      .join(','),
   );
   return `${[head.join(','), ...rows].join('\r\n')}\r\n`;
 }

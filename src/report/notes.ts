@@ -12,7 +12,9 @@ import { unified } from 'unified';
 
 const schema = {
   ...defaultSchema,
-  tagNames: (defaultSchema.tagNames ?? []).filter((t) => !['img', 'picture', 'source', 'video', 'audio'].includes(t)),
+  tagNames: (defaultSchema.tagNames ?? []).filter(
+    (t) => !['img', 'picture', 'source', 'video', 'audio'].includes(t),
+  ),
   protocols: { ...defaultSchema.protocols, href: ['http', 'https', 'mailto'] },
   clobberPrefix: 'note-',
 };

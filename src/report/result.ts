@@ -137,7 +137,10 @@ export function buildResult(
       unexplained: identification.explanation.unexplained,
       confidence: r(identification.explanation.confidence, 4),
       status: identification.explanation.status,
-      contenders: identification.explanation.contenders.map((c) => ({ species: c.species, probability: r(c.probability, 4) })),
+      contenders: identification.explanation.contenders.map((c) => ({
+        species: c.species,
+        probability: r(c.probability, 4),
+      })),
       discriminators: identification.explanation.discriminators.map((d) => ({
         ...d,
         vacuum_nm: r(d.vacuum_nm, 4),

@@ -33,12 +33,16 @@ function instrumentText(s: Session): string {
 function siteText(s: Session): string | null {
   if (!s.site) return null;
   const bits = [s.site.name];
-  if (s.site.lat !== null && s.site.lon !== null) bits.push(`${fixed(s.site.lat, 3)}°, ${fixed(s.site.lon, 3)}°`);
+  if (s.site.lat !== null && s.site.lon !== null)
+    bits.push(`${fixed(s.site.lat, 3)}°, ${fixed(s.site.lon, 3)}°`);
   if (s.site.elevation_m !== null) bits.push(`${s.site.elevation_m} m`);
   return bits.filter(Boolean).join(', ');
 }
 
-export async function sessionPageModel(input: SessionPageInput, cache: ChartCache): Promise<Record<string, unknown>> {
+export async function sessionPageModel(
+  input: SessionPageInput,
+  cache: ChartCache,
+): Promise<Record<string, unknown>> {
   const { session, reduction, identification: idn, result, catalog } = input;
   const medium = reduction.medium;
   const unitLabel = `${medium} nm`;
@@ -52,7 +56,10 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
     height: maxI > 0 && l.intensity !== null ? 0.15 + 0.85 * (l.intensity / maxI) : 1,
     label: `#${l.index + 1} ${fixed(display(l.rest_vacuum_nm, medium), 3)} nm`,
   }));
-  const shownSpecies = idn.explanation.species.length > 0 ? idn.explanation.species : idn.candidates.slice(0, 1).map((c) => c.species);
+  const shownSpecies =
+    idn.explanation.species.length > 0
+      ? idn.explanation.species
+      : idn.candidates.slice(0, 1).map((c) => c.species);
   const references: { wavelength_nm: number; height: number; species: string }[] = [];
   for (const sp of shownSpecies) {
     const lines = catalog.species.get(sp);
@@ -65,13 +72,24 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
     for (let k = 0; k < lines.vacuum_nm.length; k++) {
       const v = lines.vacuum_nm[k] as number;
       if (v < idn.range_nm[0] || v > idn.range_nm[1]) continue;
-      references.push({ wavelength_nm: display(v, medium), height: -(0.15 + 0.85 * ((lines.intensity[k] as number) / (top || 1))), species: sp });
+      references.push({
+        wavelength_nm: display(v, medium),
+        height: -(0.15 + 0.85 * ((lines.intensity[k] as number) / (top || 1))),
+        species: sp,
+      });
     }
   }
   const range: [number, number] = [display(idn.range_nm[0], medium), display(idn.range_nm[1], medium)];
   const spectrumTitle = `Measured lines (black, above) and reference lines of ${shownSpecies.join(', ') || 'no species'} (dashed, below), ${range[0].toFixed(0)}–${range[1].toFixed(0)} ${unitLabel}; the band shows the colour of each wavelength.`;
   const spectrum = await renderChart(
-    spectrumChart({ title: spectrumTitle, unitLabel, range_nm: range, measured, references, species: shownSpecies }),
+    spectrumChart({
+      title: spectrumTitle,
+      unitLabel,
+      range_nm: range,
+      measured,
+      references,
+      species: shownSpecies,
+    }),
     cache,
   );
 
@@ -87,13 +105,26 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
       };
     });
   const residualTitle = `Residuals of the ${residualPoints.length} assigned lines (measured − reference) with ±1σ bars.`;
-  const residuals = residualPoints.length > 0 ? await renderChart(residualChart(residualTitle, unitLabel, residualPoints, shownSpecies), cache) : null;
+  const residuals =
+    residualPoints.length > 0
+      ? await renderChart(residualChart(residualTitle, unitLabel, residualPoints, shownSpecies), cache)
+      : null;
 
   const top = idn.candidates.slice(0, 8);
   const scoresTitle = `Scores of the ${top.length} best candidates; the species of the explanation in blue.`;
   const scores =
     top.length > 0
-      ? await renderChart(scoreChart(scoresTitle, top.map((c) => ({ species: c.species, score: Number(c.score.toFixed(3)), chosen: chosen.has(c.species) }))), cache)
+      ? await renderChart(
+          scoreChart(
+            scoresTitle,
+            top.map((c) => ({
+              species: c.species,
+              score: Number(c.score.toFixed(3)),
+              chosen: chosen.has(c.species),
+            })),
+          ),
+          cache,
+        )
       : null;
 
   let calibration: Record<string, unknown> | null = null;
@@ -106,7 +137,8 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
       return { pixel: p, wavelength_nm: cal.coefficients.reduce((acc, c, k) => acc + c * t ** k, 0) };
     });
     const caption = `Calibration: ${cal.points.length} lines of known wavelength, degree-${cal.degree} fit (line) and residuals below; flagged outliers in orange.`;
-    const chart = cal.points.length > 0 ? await renderChart(calibrationChart(caption, cal.points, curve), cache) : null;
+    const chart =
+      cal.points.length > 0 ? await renderChart(calibrationChart(caption, cal.points, curve), cache) : null;
     calibration = {
       description: cal.description,
       rms: fixed(cal.rms_nm, 4),
@@ -127,7 +159,8 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
     : null;
 
   const usedSources = new Set<string>();
-  for (const sp of idn.explanation.species) for (const s of catalog.species.get(sp)?.source ?? []) usedSources.add(s);
+  for (const sp of idn.explanation.species)
+    for (const s of catalog.species.get(sp)?.source ?? []) usedSources.add(s);
   const sources = [...usedSources].sort().map((k) => catalog.sources.get(k)?.citation ?? k);
 
   return {
@@ -151,7 +184,9 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
     reduction: reduction.description,
     shift,
     lines: reduction.lines.map((l) => ({
-      number: l.combined_indices.length ? `${l.index + 1} (+${l.combined_indices.map((i) => i + 1).join(', ')})` : l.index + 1,
+      number: l.combined_indices.length
+        ? `${l.index + 1} (+${l.combined_indices.map((i) => i + 1).join(', ')})`
+        : l.index + 1,
       label: l.label ?? '',
       reading: l.reading_text,
       air: fixed(l.air_nm, 3),
@@ -174,7 +209,12 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
         residual_nm: asg ? fixed(asg.residual_nm, 3) : '—',
         residual_km_s: asg ? fixed(asg.residual_km_s, 1) : '—',
         alternatives:
-          (a?.alternatives ?? []).map((x) => `${x.species} ${fixed(display(x.ref_vacuum_nm, medium), 2)} (${fixed(x.residual_nm, 2)})`).join('; ') || '—',
+          (a?.alternatives ?? [])
+            .map(
+              (x) =>
+                `${x.species} ${fixed(display(x.ref_vacuum_nm, medium), 2)} (${fixed(x.residual_nm, 2)})`,
+            )
+            .join('; ') || '—',
       };
     }),
     candidates: idn.candidates.slice(0, 15).map((c, i) => ({
@@ -186,7 +226,12 @@ export async function sessionPageModel(input: SessionPageInput, cache: ChartCach
       matched: c.matched,
       expected: c.expected,
       falseAlarm: probability(c.false_alarm),
-      missing: c.missing_nm.length ? c.missing_nm.slice(0, 5).map((x) => fixed(display(x, medium), 1)).join(', ') + (c.missing_nm.length > 5 ? ' …' : '') : '—',
+      missing: c.missing_nm.length
+        ? c.missing_nm
+            .slice(0, 5)
+            .map((x) => fixed(display(x, medium), 1))
+            .join(', ') + (c.missing_nm.length > 5 ? ' …' : '')
+        : '—',
     })),
     notesHtml: renderNotes(session.notes),
     program: { version: input.programVersion },

@@ -54,7 +54,12 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
   const files: SiteFile[] = [{ path: 'style.css', contents: templates.css }];
   const rows: IndexRow[] = [];
   const overview: { session: string; species: string }[] = [];
-  const common = { program: { version: input.programVersion }, catalog, site: input.settings, builtOn: input.builtOn };
+  const common = {
+    program: { version: input.programVersion },
+    catalog,
+    site: input.settings,
+    builtOn: input.builtOn,
+  };
 
   for (const { outcome, text } of input.outcomes) {
     const fileName = outcome.file.replace(/^.*[\\/]/, '');
@@ -69,7 +74,9 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
         explanation: 'not built: see the problems below',
         confidence: '—',
         status: 'failed',
-        diagnostics: outcome.diagnostics.map((d: Diagnostic) => formatDiagnosticLine({ ...d, file: fileName })),
+        diagnostics: outcome.diagnostics.map((d: Diagnostic) =>
+          formatDiagnosticLine({ ...d, file: fileName }),
+        ),
       });
       continue;
     }
@@ -92,7 +99,12 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
     const body = templates.session({ ...model, root: '../../' });
     files.push({
       path: `${dir}/index.html`,
-      contents: templates.layout({ ...common, root: '../../', pageTitle: `${session.title} — ${input.settings.title}`, body }),
+      contents: templates.layout({
+        ...common,
+        root: '../../',
+        pageTitle: `${session.title} — ${input.settings.title}`,
+        body,
+      }),
     });
     files.push({ path: `${dir}/result.json`, contents: `${JSON.stringify(result, null, 2)}\n` });
     files.push({ path: `${dir}/lines.csv`, contents: linesCsv(result) });
@@ -106,17 +118,25 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
       href: `${dir}/index.html`,
       source: `${session.source.kind}${session.source.name ? ` — ${session.source.name}` : ''}`,
       explanation: identification.explanation.summary,
-      confidence: identification.explanation.species.length ? percent(identification.explanation.confidence) : '—',
+      confidence: identification.explanation.species.length
+        ? percent(identification.explanation.confidence)
+        : '—',
       status: identification.explanation.status,
       diagnostics: [],
     });
   }
 
   // Newest first; undated last; ties by title so the order never depends on the file system.
-  rows.sort((a, b) => (b.sortKey || '0').localeCompare(a.sortKey || '0') || a.title.localeCompare(b.title) || a.file.localeCompare(b.file));
+  rows.sort(
+    (a, b) =>
+      (b.sortKey || '0').localeCompare(a.sortKey || '0') ||
+      a.title.localeCompare(b.title) ||
+      a.file.localeCompare(b.file),
+  );
   const count = (s: string) => rows.filter((r) => r.status === s).length;
   const overviewCaption = `Species in each session's explanation (${overview.length} findings across ${rows.length} sessions).`;
-  const overviewChartSvg = overview.length > 0 ? (await renderChart(overviewChart(overviewCaption, overview), cache)).svg : null;
+  const overviewChartSvg =
+    overview.length > 0 ? (await renderChart(overviewChart(overviewCaption, overview), cache)).svg : null;
   const indexBody = templates.index({
     ...common,
     root: '',
@@ -133,6 +153,9 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
     overview: overviewChartSvg ? { svg: overviewChartSvg, caption: overviewCaption } : null,
     generalCaution: GENERAL_CAUTION,
   });
-  files.push({ path: 'index.html', contents: templates.layout({ ...common, root: '', pageTitle: input.settings.title, body: indexBody }) });
+  files.push({
+    path: 'index.html',
+    contents: templates.layout({ ...common, root: '', pageTitle: input.settings.title, body: indexBody }),
+  });
   return files.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
 }

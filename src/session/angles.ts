@@ -4,7 +4,8 @@
  * Also sexagesimal right ascension (`18h36m56s`) and declination (`+38d47m01s`).
  */
 
-const DMS = /^\s*([+-−]?)\s*(\d+(?:\.\d+)?)\s*(?:°|d|deg|:|\s)\s*(?:(\d+(?:\.\d+)?)\s*(?:'|′|m|min|:)?\s*(?:(\d+(?:\.\d+)?)\s*(?:"|″|''|s)?)?)?\s*$/i;
+const DMS =
+  /^\s*([+\-−]?)\s*(\d+(?:\.\d+)?)\s*(?:°|d|deg|:|\s)\s*(?:(\d+(?:\.\d+)?)\s*(?:'|′|m|min|:)?\s*(?:(\d+(?:\.\d+)?)\s*(?:"|″|''|s)?)?)?\s*$/i;
 
 /** Degrees from a number or a degree–minute–second string; null when it cannot be read. */
 export function parseAngleDeg(value: number | string): number | null {
@@ -21,7 +22,8 @@ export function parseAngleDeg(value: number | string): number | null {
   return sign * (deg + min / 60 + sec / 3600);
 }
 
-const HMS = /^\s*(\d+(?:\.\d+)?)\s*(?:h|:|\s)\s*(\d+(?:\.\d+)?)\s*(?:m|:|\s)?\s*(?:(\d+(?:\.\d+)?)\s*s?)?\s*$/i;
+const HMS =
+  /^\s*(\d+(?:\.\d+)?)\s*(?:h|:|\s)\s*(\d+(?:\.\d+)?)\s*(?:m|:|\s)?\s*(?:(\d+(?:\.\d+)?)\s*s?)?\s*$/i;
 
 /** Right ascension in degrees from degrees (number) or an hours–minutes–seconds string. */
 export function parseRightAscensionDeg(value: number | string): number | null {

@@ -63,23 +63,50 @@ export function normalizeSession(
   const method: MeasurementMethod = m.method ?? 'wavelength';
   const grating = readGrating(m.grating, problem);
   if ((method === 'grating-angle' || method === 'screen') && grating === null && !m.grating) {
-    problem(['measurement'], 'missing-key', `method ${method} needs measurement.grating`, 'add grating: { lines_per_mm: 300 }');
+    problem(
+      ['measurement'],
+      'missing-key',
+      `method ${method} needs measurement.grating`,
+      'add grating: { lines_per_mm: 300 }',
+    );
   }
   const order = m.order ?? 1;
-  if (m.order === 0) problem(['measurement', 'order'], 'invalid-value', 'order 0 carries no wavelength information', 'use 1 (or the order you read)');
+  if (m.order === 0)
+    problem(
+      ['measurement', 'order'],
+      'invalid-value',
+      'order 0 carries no wavelength information',
+      'use 1 (or the order you read)',
+    );
   if (method === 'screen') {
     if (m.screen_distance_mm === undefined) {
-      problem(['measurement'], 'missing-key', 'method screen needs measurement.screen_distance_mm', 'add the grating-to-screen distance in mm');
+      problem(
+        ['measurement'],
+        'missing-key',
+        'method screen needs measurement.screen_distance_mm',
+        'add the grating-to-screen distance in mm',
+      );
     } else if (!(m.screen_distance_mm > 0)) {
-      problem(['measurement', 'screen_distance_mm'], 'invalid-value', 'screen distance must be greater than 0', 'measure the grating-to-screen distance in mm');
+      problem(
+        ['measurement', 'screen_distance_mm'],
+        'invalid-value',
+        'screen distance must be greater than 0',
+        'measure the grating-to-screen distance in mm',
+      );
     }
   }
   const calibration = readCalibration(m.calibration, method, problem, source);
 
-  const lines: RawLine[] = doc.lines.map((line, index) => readLine(line, index, method, doc, source, problem));
+  const lines: RawLine[] = doc.lines.map((line, index) =>
+    readLine(line, index, method, doc, source, problem),
+  );
   for (const line of lines) {
     if (line.same_as !== null && (line.same_as >= lines.length || line.same_as === line.index)) {
-      problem(['lines', line.index, 'same_as'], 'invalid-value', `same_as must name another line (0…${lines.length - 1})`);
+      problem(
+        ['lines', line.index, 'same_as'],
+        'invalid-value',
+        `same_as must name another line (0…${lines.length - 1})`,
+      );
     }
   }
 
@@ -93,10 +120,27 @@ export function normalizeSession(
   if (doc.shift?.barycentric) {
     const ra = parseRightAscensionDeg(doc.shift.barycentric.ra);
     const dec = parseDeclinationDeg(doc.shift.barycentric.dec);
-    if (ra === null) problem(['shift', 'barycentric', 'ra'], 'invalid-value', 'cannot read this right ascension', 'write it as 18h36m56s or in degrees');
-    if (dec === null) problem(['shift', 'barycentric', 'dec'], 'invalid-value', 'cannot read this declination', 'write it as +38d47m01s or in degrees');
-    if (!doc.date || !doc.date.includes('T') && !doc.date.includes(' ')) {
-      problem(['date'], 'missing-key', 'a barycentric correction needs a UTC date-time', 'write date: 2026-03-14T21:30:00Z');
+    if (ra === null)
+      problem(
+        ['shift', 'barycentric', 'ra'],
+        'invalid-value',
+        'cannot read this right ascension',
+        'write it as 18h36m56s or in degrees',
+      );
+    if (dec === null)
+      problem(
+        ['shift', 'barycentric', 'dec'],
+        'invalid-value',
+        'cannot read this declination',
+        'write it as +38d47m01s or in degrees',
+      );
+    if (!doc.date || (!doc.date.includes('T') && !doc.date.includes(' '))) {
+      problem(
+        ['date'],
+        'missing-key',
+        'a barycentric correction needs a UTC date-time',
+        'write date: 2026-03-14T21:30:00Z',
+      );
     }
     if (doc.site?.lat === undefined || doc.site?.lon === undefined) {
       problem(['site'], 'missing-key', 'a barycentric correction needs site.lat and site.lon');
@@ -156,7 +200,10 @@ export function normalizeSession(
 
 type Problem = (path: FieldPath, code: string, message: string, hint?: string, key?: boolean) => void;
 
-function readGrating(g: NonNullable<SessionDocument['measurement']>['grating'], problem: Problem): GratingSpec | null {
+function readGrating(
+  g: NonNullable<SessionDocument['measurement']>['grating'],
+  problem: Problem,
+): GratingSpec | null {
   if (!g) return null;
   if (g.lines_per_mm !== undefined && g.spacing_um !== undefined) {
     problem(['measurement', 'grating'], 'conflicting-keys', 'give lines_per_mm or spacing_um, not both');
@@ -168,9 +215,18 @@ function readGrating(g: NonNullable<SessionDocument['measurement']>['grating'], 
     return { spacing_nm, spacing_sigma_nm: spacing_nm * rel, type: g.type ?? 'transmission' };
   }
   if (g.spacing_um !== undefined) {
-    return { spacing_nm: g.spacing_um * 1000, spacing_sigma_nm: (g.spacing_sigma_um ?? 0) * 1000, type: g.type ?? 'transmission' };
+    return {
+      spacing_nm: g.spacing_um * 1000,
+      spacing_sigma_nm: (g.spacing_sigma_um ?? 0) * 1000,
+      type: g.type ?? 'transmission',
+    };
   }
-  problem(['measurement', 'grating'], 'missing-key', 'the grating needs lines_per_mm or spacing_um', 'add lines_per_mm: 300');
+  problem(
+    ['measurement', 'grating'],
+    'missing-key',
+    'the grating needs lines_per_mm or spacing_um',
+    'add lines_per_mm: 300',
+  );
   return null;
 }
 
@@ -181,11 +237,23 @@ function readCalibration(
   source: YamlSource,
 ): MeasurementSpec['calibration'] {
   if (method !== 'pixel') {
-    if (c) problem(['measurement', 'calibration'], 'unused-key', `calibration is only used with method pixel, not ${method}`, 'remove it or set method: pixel', true);
+    if (c)
+      problem(
+        ['measurement', 'calibration'],
+        'unused-key',
+        `calibration is only used with method pixel, not ${method}`,
+        'remove it or set method: pixel',
+        true,
+      );
     return null;
   }
   if (!c) {
-    problem(['measurement'], 'missing-key', 'method pixel needs measurement.calibration', 'add calibration lines of known wavelength, or zero_order_pixel with dispersion_nm_per_px');
+    problem(
+      ['measurement'],
+      'missing-key',
+      'method pixel needs measurement.calibration',
+      'add calibration lines of known wavelength, or zero_order_pixel with dispersion_nm_per_px',
+    );
     return null;
   }
   const degree = c.degree ?? 1;
@@ -205,8 +273,16 @@ function readCalibration(
       'add calibration lines or lower the degree',
     );
   }
-  if (slitless && c.dispersion_nm_per_px === undefined && (c.pixel_size_um === undefined || c.sensor_distance_mm === undefined)) {
-    problem(['measurement', 'calibration'], 'missing-key', 'slitless mode needs dispersion_nm_per_px, or pixel_size_um with sensor_distance_mm');
+  if (
+    slitless &&
+    c.dispersion_nm_per_px === undefined &&
+    (c.pixel_size_um === undefined || c.sensor_distance_mm === undefined)
+  ) {
+    problem(
+      ['measurement', 'calibration'],
+      'missing-key',
+      'slitless mode needs dispersion_nm_per_px, or pixel_size_um with sensor_distance_mm',
+    );
   }
   return {
     points,
@@ -231,15 +307,33 @@ function readLine(
   const present = ALL_POSITION_KEYS.filter((k) => line[k] !== undefined);
   for (const k of present) {
     if (!wanted.includes(k)) {
-      problem([...at, k], 'mixed-methods', `"${k}" does not belong to method ${method}`, `use ${wanted.join(' or ')}, or change measurement.method`, true);
+      problem(
+        [...at, k],
+        'mixed-methods',
+        `"${k}" does not belong to method ${method}`,
+        `use ${wanted.join(' or ')}, or change measurement.method`,
+        true,
+      );
     }
   }
   const readAngle = (k: 'angle_deg' | 'angle_left_deg' | 'angle_right_deg'): number | null => {
     const v = line[k];
     if (v === undefined) return null;
     const deg = parseAngleDeg(v);
-    if (deg === null) problem([...at, k], 'invalid-angle', `cannot read the angle ${JSON.stringify(v)}`, "write decimal degrees or degrees and minutes such as 9° 26'");
-    else if (Math.abs(deg) >= 90) problem([...at, k], 'invalid-angle', `an angle of ${deg.toFixed(3)}° is past 90°`, 'a diffracted beam leaves the grating below 90°');
+    if (deg === null)
+      problem(
+        [...at, k],
+        'invalid-angle',
+        `cannot read the angle ${JSON.stringify(v)}`,
+        "write decimal degrees or degrees and minutes such as 9° 26'",
+      );
+    else if (Math.abs(deg) >= 90)
+      problem(
+        [...at, k],
+        'invalid-angle',
+        `an angle of ${deg.toFixed(3)}° is past 90°`,
+        'a diffracted beam leaves the grating below 90°',
+      );
     return deg;
   };
   const angle_deg = readAngle('angle_deg');
@@ -247,25 +341,47 @@ function readLine(
   const angle_right_deg = readAngle('angle_right_deg');
   switch (method) {
     case 'wavelength':
-      if (line.wavelength === undefined) problem(at, 'missing-key', 'this line has no wavelength', 'add wavelength: (in measurement.unit)');
-      else if (!(line.wavelength > 0)) problem([...at, 'wavelength'], 'invalid-value', `a wavelength must be positive, not ${line.wavelength}`);
+      if (line.wavelength === undefined)
+        problem(at, 'missing-key', 'this line has no wavelength', 'add wavelength: (in measurement.unit)');
+      else if (!(line.wavelength > 0))
+        problem(
+          [...at, 'wavelength'],
+          'invalid-value',
+          `a wavelength must be positive, not ${line.wavelength}`,
+        );
       break;
     case 'grating-angle':
-      if (angle_deg === null && (angle_left_deg === null || angle_right_deg === null) && !present.some((k) => k.startsWith('angle'))) {
-        problem(at, 'missing-key', 'this line has no angle', 'add angle_deg, or angle_left_deg and angle_right_deg');
-      } else if (line.angle_deg === undefined && (line.angle_left_deg === undefined) !== (line.angle_right_deg === undefined)) {
+      if (
+        angle_deg === null &&
+        (angle_left_deg === null || angle_right_deg === null) &&
+        !present.some((k) => k.startsWith('angle'))
+      ) {
+        problem(
+          at,
+          'missing-key',
+          'this line has no angle',
+          'add angle_deg, or angle_left_deg and angle_right_deg',
+        );
+      } else if (
+        line.angle_deg === undefined &&
+        (line.angle_left_deg === undefined) !== (line.angle_right_deg === undefined)
+      ) {
         problem(at, 'missing-key', 'give both angle_left_deg and angle_right_deg (or angle_deg)');
       }
       break;
     case 'screen':
-      if (line.offset_mm === undefined && line.separation_mm === undefined) problem(at, 'missing-key', 'this line has no screen position', 'add offset_mm or separation_mm');
+      if (line.offset_mm === undefined && line.separation_mm === undefined)
+        problem(at, 'missing-key', 'this line has no screen position', 'add offset_mm or separation_mm');
       break;
     case 'pixel':
-      if (line.pixel === undefined) problem(at, 'missing-key', 'this line has no pixel position', 'add pixel:');
+      if (line.pixel === undefined)
+        problem(at, 'missing-key', 'this line has no pixel position', 'add pixel:');
       break;
   }
-  if (line.order === 0) problem([...at, 'order'], 'invalid-value', 'order 0 carries no wavelength information');
-  const kind: LineKind = line.kind ?? (ABSORPTION_SOURCES.has(doc.source?.kind ?? '') ? 'absorption' : 'emission');
+  if (line.order === 0)
+    problem([...at, 'order'], 'invalid-value', 'order 0 carries no wavelength information');
+  const kind: LineKind =
+    line.kind ?? (ABSORPTION_SOURCES.has(doc.source?.kind ?? '') ? 'absorption' : 'emission');
   return {
     index,
     position: source.positionOf(at),
@@ -302,13 +418,24 @@ function readShift(doc: SessionDocument, problem: Problem): ShiftRequest {
     return { mode: 'none' };
   }
   const v = s.velocity_km_s;
-  if (typeof v === 'number') return { mode: 'velocity', velocity_km_s: v, sigma_km_s: s.velocity_sigma_km_s ?? 0 };
-  if (v) return searchRange(v.search, ['shift', 'velocity_km_s', 'search'], problem, (a, b) => ({ mode: 'velocity-search', from_km_s: a, to_km_s: b }));
+  if (typeof v === 'number')
+    return { mode: 'velocity', velocity_km_s: v, sigma_km_s: s.velocity_sigma_km_s ?? 0 };
+  if (v)
+    return searchRange(v.search, ['shift', 'velocity_km_s', 'search'], problem, (a, b) => ({
+      mode: 'velocity-search',
+      from_km_s: a,
+      to_km_s: b,
+    }));
   const z = s.redshift;
   if (typeof z === 'number') return { mode: 'redshift', z, sigma: s.redshift_sigma ?? 0 };
   if (z) {
-    if (z.search[0]! <= -1) problem(['shift', 'redshift', 'search'], 'invalid-value', 'a redshift search must start above -1');
-    return searchRange(z.search, ['shift', 'redshift', 'search'], problem, (a, b) => ({ mode: 'redshift-search', from: a, to: b }));
+    if (z.search[0]! <= -1)
+      problem(['shift', 'redshift', 'search'], 'invalid-value', 'a redshift search must start above -1');
+    return searchRange(z.search, ['shift', 'redshift', 'search'], problem, (a, b) => ({
+      mode: 'redshift-search',
+      from: a,
+      to: b,
+    }));
   }
   return { mode: 'none' };
 }

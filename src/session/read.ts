@@ -4,8 +4,8 @@
  */
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import { normalizeSession } from './normalize.js';
-import { validateDocument } from './validate.js';
 import type { Session } from './types.js';
+import { validateDocument } from './validate.js';
 import { parseYamlSource } from './yamlSource.js';
 
 export interface ReadLimits {
@@ -15,7 +15,14 @@ export interface ReadLimits {
 
 export const DEFAULT_READ_LIMITS: ReadLimits = { maxBytes: 2 * 1024 * 1024, maxAliasCount: 50 };
 
-function fileProblem(file: string, code: string, message: string, hint: string, line = 1, col = 1): Diagnostic {
+function fileProblem(
+  file: string,
+  code: string,
+  message: string,
+  hint: string,
+  line = 1,
+  col = 1,
+): Diagnostic {
   return { file, line, col, severity: 'error', code, field: '', message, hint };
 }
 
@@ -29,7 +36,12 @@ export function readSessionText(
     return {
       ok: false,
       diagnostics: [
-        fileProblem(file, 'file-too-large', `the file is ${size} bytes; the limit is ${limits.maxBytes}`, 'split the session or trim it'),
+        fileProblem(
+          file,
+          'file-too-large',
+          `the file is ${size} bytes; the limit is ${limits.maxBytes}`,
+          'split the session or trim it',
+        ),
       ],
     };
   }
@@ -53,7 +65,14 @@ export function readSessionText(
     return {
       ok: false,
       diagnostics: [
-        fileProblem(file, 'binary-content', 'the file holds a NUL byte: it is not a text file', 'check that this is a session YAML file', before.length, (before.at(-1)?.length ?? 0) + 1),
+        fileProblem(
+          file,
+          'binary-content',
+          'the file holds a NUL byte: it is not a text file',
+          'check that this is a session YAML file',
+          before.length,
+          (before.at(-1)?.length ?? 0) + 1,
+        ),
       ],
     };
   }

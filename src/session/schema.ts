@@ -8,7 +8,17 @@ import { type Static, type TSchema, Type } from '@sinclair/typebox';
 
 const Strict = { additionalProperties: false } as const;
 
-export const SOURCE_KINDS = ['lamp', 'flame', 'star', 'nebula', 'galaxy', 'sky', 'laser', 'other', 'unknown'] as const;
+export const SOURCE_KINDS = [
+  'lamp',
+  'flame',
+  'star',
+  'nebula',
+  'galaxy',
+  'sky',
+  'laser',
+  'other',
+  'unknown',
+] as const;
 export const METHODS = ['wavelength', 'grating-angle', 'screen', 'pixel'] as const;
 export const WAVELENGTH_UNITS = ['nm', 'angstrom', 'um'] as const;
 export const INTENSITY_WORDS = ['very-weak', 'weak', 'medium', 'strong', 'very-strong'] as const;
@@ -43,7 +53,9 @@ const IsoDate = Type.String({
 const Site = Type.Object(
   {
     name: Type.Optional(Type.String({ maxLength: 200 })),
-    lat: Type.Optional(Type.Number({ minimum: -90, maximum: 90, description: 'Geodetic latitude, degrees north' })),
+    lat: Type.Optional(
+      Type.Number({ minimum: -90, maximum: 90, description: 'Geodetic latitude, degrees north' }),
+    ),
     lon: Type.Optional(Type.Number({ minimum: -180, maximum: 360, description: 'Longitude, degrees east' })),
     elevation_m: Type.Optional(Type.Number({ minimum: -500, maximum: 10000 })),
   },
@@ -144,7 +156,9 @@ const Calibration = Type.Object(
   {
     lines: Type.Optional(Type.Array(CalibrationLine, { maxItems: 500 })),
     degree: Type.Optional(Type.Integer({ minimum: 1, maximum: 3 })),
-    zero_order_pixel: Type.Optional(Type.Number({ description: 'Slitless: pixel of the zeroth-order image' })),
+    zero_order_pixel: Type.Optional(
+      Type.Number({ description: 'Slitless: pixel of the zeroth-order image' }),
+    ),
     dispersion_nm_per_px: Type.Optional(PositiveNumber('Slitless: known dispersion')),
     pixel_size_um: Type.Optional(PositiveNumber('Slitless: sensor pixel size')),
     sensor_distance_mm: Type.Optional(PositiveNumber('Slitless: grating-to-sensor distance')),
@@ -155,7 +169,9 @@ const Calibration = Type.Object(
 const Measurement = Type.Object(
   {
     method: Type.Optional(words(METHODS, 'How line positions were read')),
-    unit: Type.Optional(words(WAVELENGTH_UNITS, 'Unit of wavelengths (method wavelength, calibration lines)')),
+    unit: Type.Optional(
+      words(WAVELENGTH_UNITS, 'Unit of wavelengths (method wavelength, calibration lines)'),
+    ),
     sigma: Type.Optional(NonNegativeNumber("Default uncertainty of one reading, in the reading's unit")),
     grating: Type.Optional(Grating),
     order: Type.Optional(Type.Integer({ description: 'Diffraction order m (not 0)' })),
@@ -186,7 +202,9 @@ const Line = Type.Object(
     kind: Type.Optional(words(LINE_KINDS, 'Emission or absorption')),
     width_nm: Type.Optional(NonNegativeNumber('Observed FWHM')),
     label: Type.Optional(Type.String({ maxLength: 200 })),
-    order: Type.Optional(Type.Integer({ description: 'Order of this reading, overriding measurement.order' })),
+    order: Type.Optional(
+      Type.Integer({ description: 'Order of this reading, overriding measurement.order' }),
+    ),
     angle_deg: Type.Optional(Angle('Diffraction angle from the straight-through direction')),
     angle_left_deg: Type.Optional(Angle('Table reading on one side')),
     angle_right_deg: Type.Optional(Angle('Table reading on the other side')),

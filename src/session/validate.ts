@@ -38,7 +38,8 @@ export function validateDocument(
   const shown = errors.filter(
     (e) =>
       !unions.some(
-        (u) => u !== e && e.schemaPath.startsWith(`${u.schemaPath}/`) && e.instancePath.startsWith(u.instancePath),
+        (u) =>
+          u !== e && e.schemaPath.startsWith(`${u.schemaPath}/`) && e.instancePath.startsWith(u.instancePath),
       ),
   );
   const diagnostics = shown.map((e) => toDiagnostic(e, source, file));
@@ -84,7 +85,11 @@ function toDiagnostic(error: ErrorObject, source: YamlSource, file: string): Dia
         ...source.positionOf(path),
         code: empty ? 'empty-list' : 'invalid-value',
         field: fieldName(path),
-        message: empty ? 'the list is empty' : expected ? `must be ${expected}` : (error.message ?? 'invalid value'),
+        message: empty
+          ? 'the list is empty'
+          : expected
+            ? `must be ${expected}`
+            : (error.message ?? 'invalid value'),
         hint: empty ? 'add at least one entry' : undefined,
       };
     }

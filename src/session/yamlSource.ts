@@ -81,7 +81,9 @@ export function parseYamlSource(
       const part = path[i];
       const last = i === path.length - 1;
       if (isMap(node)) {
-        const pair = node.items.find((p) => isPair(p) && isScalar(p.key) && String(p.key.value) === String(part));
+        const pair = node.items.find(
+          (p) => isPair(p) && isScalar(p.key) && String(p.key.value) === String(part),
+        );
         if (!pair) return best;
         if (last && key) return nodeStart(pair.key, at) ?? best;
         node = pair.value;

@@ -1,8 +1,14 @@
 import { BaryState, Body, MakeTime } from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
-import { EARTH_ROTATION_RAD_S, KM_PER_AU, SECONDS_PER_DAY, WGS84_EQUATORIAL_RADIUS_KM, WGS84_FLATTENING } from '../../src/constants.js';
+import {
+  EARTH_ROTATION_RAD_S,
+  KM_PER_AU,
+  SECONDS_PER_DAY,
+  WGS84_EQUATORIAL_RADIUS_KM,
+  WGS84_FLATTENING,
+} from '../../src/constants.js';
 import { barycentricCorrectionKmS, parseUtcDateTime, unitVector } from '../../src/reduce/barycentric.js';
-import { reduceFailures, reduced, sessionOf } from './helpers.js';
+import { reduced, reduceFailures, sessionOf } from './helpers.js';
 
 const RAD = Math.PI / 180;
 
@@ -32,7 +38,11 @@ describe('barycentric correction', () => {
     // v·n̂ = −ω·ρcosφ′·cos δ·sin H, with H = LST − α the hour angle.
     const jd = WHEN.getTime() / 86_400_000 + 2_440_587.5;
     const t = (jd - 2_451_545) / 36_525;
-    const gmst = 280.460_618_37 + 360.985_647_366_29 * (jd - 2_451_545) + 0.000_387_933 * t * t - (t * t * t) / 38_710_000;
+    const gmst =
+      280.460_618_37 +
+      360.985_647_366_29 * (jd - 2_451_545) +
+      0.000_387_933 * t * t -
+      (t * t * t) / 38_710_000;
     const hourAngle = (gmst + KECK.lon_deg - TARGET.ra_deg) * RAD;
     const phi = KECK.lat_deg * RAD;
     const e2 = WGS84_FLATTENING * (2 - WGS84_FLATTENING);
@@ -46,7 +56,12 @@ describe('barycentric correction', () => {
 
   it('reverses sign for the opposite direction on the sky', () => {
     const there = barycentricCorrectionKmS({ ...TARGET, ...KECK, date: WHEN });
-    const opposite = barycentricCorrectionKmS({ ra_deg: TARGET.ra_deg + 180, dec_deg: -TARGET.dec_deg, ...KECK, date: WHEN });
+    const opposite = barycentricCorrectionKmS({
+      ra_deg: TARGET.ra_deg + 180,
+      dec_deg: -TARGET.dec_deg,
+      ...KECK,
+      date: WHEN,
+    });
     expect(opposite).toBeCloseTo(-there, 9);
   });
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { vacuumPerAirSlope } from '../../src/reduce/airVacuum.js';
 import { diffractionAngleDeg, solveGratingEquation } from '../../src/reduce/grating.js';
-import { expectPositioned, failures, reduceFailures, reduced, sessionOf } from './helpers.js';
+import { expectPositioned, failures, reduced, reduceFailures, sessionOf } from './helpers.js';
 
 const session = (lines: string, extra = '') => `lineledger: 1
 medium: air
@@ -57,6 +57,22 @@ describe('grating equation, worked values', () => {
     expect(diffractionAngleDeg(setup, 1600)).toBeNull();
   });
 
+  it('reflection grating at oblique incidence: θ read from the specular beam', () => {
+    // 1200 lines/mm, α = 20°: the specular beam leaves at −α, so a line at β from the normal is
+    // read at θ = β + α. β from m·λ = d·(sin α + sin β) for Hg 546.074 nm, worked by hand here.
+    const d = 1e6 / 1200;
+    const beta = Math.asin(546.074 / d - Math.sin((20 * Math.PI) / 180));
+    const theta = (beta * 180) / Math.PI + 20;
+    const r = reduced(
+      session(`  - angle_deg: ${theta}\n`, '  incidence_deg: 20\n').replace(
+        '{ lines_per_mm: 300 }',
+        '{ lines_per_mm: 1200, type: reflection }',
+      ),
+    );
+    expect(r.lines[0]!.air_nm).toBeCloseTo(546.074, 8);
+    expect(r.description.text).toContain('reflection');
+  });
+
   it('default σ of an angle is one arcminute: σ_λ = d·cos θ·(π/10800)', () => {
     const r = reduced(session('  - angle_deg: 9.429\n'));
     const d = 1e6 / 300;
@@ -68,7 +84,10 @@ describe('grating equation, worked values', () => {
 
   it('a spacing uncertainty adds λ·σ_d/d in quadrature', () => {
     const withSigma = reduced(
-      session('  - angle_deg: 9.429\n    sigma: 0\n').replace('{ lines_per_mm: 300 }', '{ lines_per_mm: 300, lines_per_mm_sigma: 3 }'),
+      session('  - angle_deg: 9.429\n    sigma: 0\n').replace(
+        '{ lines_per_mm: 300 }',
+        '{ lines_per_mm: 300, lines_per_mm_sigma: 3 }',
+      ),
     );
     // σ_d/d = σ_N/N = 1 %, angle σ 0: σ_λ = 1 % of λ.
     expect(withSigma.lines[0]!.sigma_nm / withSigma.lines[0]!.vacuum_nm).toBeCloseTo(0.01, 4);
@@ -98,17 +117,29 @@ describe('grating-angle bad input', () => {
   });
 
   it('order 0 and zero or negative spacings are rejected with positions', () => {
-    expect(failures(session('  - angle_deg: 9.4\n    order: 0\n')).some((d) => d.code === 'invalid-value' && d.field === 'lines[0].order' && d.line === 9)).toBe(true);
+    expect(
+      failures(session('  - angle_deg: 9.4\n    order: 0\n')).some(
+        (d) => d.code === 'invalid-value' && d.field === 'lines[0].order' && d.line === 9,
+      ),
+    ).toBe(true);
     const zero = failures(session('  - angle_deg: 9.4\n').replace('lines_per_mm: 300', 'lines_per_mm: 0'));
     expect(zero.length).toBeGreaterThan(0);
     expect(zero[0]!.line).toBe(5);
-    const negative = failures(session('  - angle_deg: 9.4\n').replace('{ lines_per_mm: 300 }', '{ spacing_um: -3.3 }'));
+    const negative = failures(
+      session('  - angle_deg: 9.4\n').replace('{ lines_per_mm: 300 }', '{ spacing_um: -3.3 }'),
+    );
     expect(negative[0]!.line).toBe(5);
   });
 
   it('the reducer guards a spacing of 0 even when handed a Session directly', () => {
     const s = sessionOf(session('  - angle_deg: 9.4\n'));
-    const broken = { ...s, measurement: { ...s.measurement, grating: { spacing_nm: 0, spacing_sigma_nm: 0, type: 'transmission' as const } } };
+    const broken = {
+      ...s,
+      measurement: {
+        ...s.measurement,
+        grating: { spacing_nm: 0, spacing_sigma_nm: 0, type: 'transmission' as const },
+      },
+    };
     expectPositioned(reduceFailures(broken), 'invalid-value', 'measurement.grating');
   });
 });

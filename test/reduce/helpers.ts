@@ -36,8 +36,13 @@ export function reduceFailures(session: Session): Diagnostic[] {
 
 /** An error diagnostic with this code exists and points at a real place in test.yaml. */
 export function expectPositioned(diagnostics: Diagnostic[], code: string, field?: string): Diagnostic {
-  const found = diagnostics.find((d) => d.code === code && d.severity === 'error' && (field === undefined || d.field === field));
-  expect(found, `no ${code} error${field ? ` on ${field}` : ''} in ${JSON.stringify(diagnostics)}`).toBeDefined();
+  const found = diagnostics.find(
+    (d) => d.code === code && d.severity === 'error' && (field === undefined || d.field === field),
+  );
+  expect(
+    found,
+    `no ${code} error${field ? ` on ${field}` : ''} in ${JSON.stringify(diagnostics)}`,
+  ).toBeDefined();
   const d = found as Diagnostic;
   expect(d.file).toBe('test.yaml');
   expect(d.line).toBeGreaterThanOrEqual(1);

@@ -2,7 +2,16 @@ import { describe, expect, it } from 'vitest';
 import { vacuumPerAirSlope } from '../../src/reduce/airVacuum.js';
 import { reduceSession } from '../../src/reduce/reduce.js';
 import type { Session } from '../../src/session/types.js';
-import { expectPositioned, failures, gaussian, mulberry32, reduceFailures, reduced, sessionOf, standardDeviation } from './helpers.js';
+import {
+  expectPositioned,
+  failures,
+  gaussian,
+  mulberry32,
+  reduced,
+  reduceFailures,
+  sessionOf,
+  standardDeviation,
+} from './helpers.js';
 
 /** A known dispersion law in raw pixels (not centred), monotonic over 0…2000 px. */
 const LAWS: Record<1 | 2 | 3, number[]> = {
@@ -12,7 +21,12 @@ const LAWS: Record<1 | 2 | 3, number[]> = {
 };
 const law = (coeffs: number[], p: number) => coeffs.reduce((acc, c, i) => acc + c * p ** i, 0);
 
-function pixelSession(points: { pixel: number; wavelength: number }[], lines: number[], degree: number, extra = ''): string {
+function pixelSession(
+  points: { pixel: number; wavelength: number }[],
+  lines: number[],
+  degree: number,
+  extra = '',
+): string {
   const cal = points.map((p) => `      - { pixel: ${p.pixel}, wavelength: ${p.wavelength} }`).join('\n');
   const measured = lines.map((p) => `  - pixel: ${p}`).join('\n');
   return `lineledger: 1
@@ -36,7 +50,9 @@ describe('pixel calibration: exact recovery of a known polynomial', () => {
       const points = pixels.map((pixel) => ({ pixel, wavelength: law(coeffs, pixel) }));
       const probes = [200, 999.5, 1800];
       const r = reduced(pixelSession(points, probes, degree));
-      probes.forEach((p, i) => expect(r.lines[i]!.vacuum_nm).toBeCloseTo(law(coeffs, p), 8));
+      probes.forEach((p, i) => {
+        expect(r.lines[i]!.vacuum_nm).toBeCloseTo(law(coeffs, p), 8);
+      });
       const cal = r.calibration!;
       expect(cal.kind).toBe('polynomial');
       expect(cal.rms_nm).toBeLessThan(1e-9);
@@ -55,7 +71,9 @@ describe('pixel calibration: exact recovery of a known polynomial', () => {
         });
         return sum;
       });
-      cal.coefficients.forEach((c, i) => expect(c).toBeCloseTo(taylor[i]!, 12 - 3 * i));
+      cal.coefficients.forEach((c, i) => {
+        expect(c).toBeCloseTo(taylor[i]!, 12 - 3 * i);
+      });
     });
   }
 
@@ -82,7 +100,10 @@ describe('pixel calibration: uncertainty', () => {
     const sigmaLine = 0.7;
     const probe = 1990; // near the edge, where the fit covariance matters most
     const points = pixels.map((pixel) => ({ pixel, wavelength: law(coeffs, pixel) }));
-    const text = pixelSession(points, [probe], 2, `  sigma: ${sigmaLine}\n`).replace(/ \}/g, `, pixel_sigma: ${sigmaCal} }`);
+    const text = pixelSession(points, [probe], 2, `  sigma: ${sigmaLine}\n`).replace(
+      / \}/g,
+      `, pixel_sigma: ${sigmaCal} }`,
+    );
     const base = sessionOf(text);
     const reported = reduced(text).lines[0]!.sigma_nm;
 
@@ -94,7 +115,10 @@ describe('pixel calibration: uncertainty', () => {
         ...base,
         measurement: {
           ...base.measurement,
-          calibration: { ...cal, points: cal.points.map((pt) => ({ ...pt, pixel: pt.pixel + sigmaCal * normal() })) },
+          calibration: {
+            ...cal,
+            points: cal.points.map((pt) => ({ ...pt, pixel: pt.pixel + sigmaCal * normal() })),
+          },
         },
         lines: base.lines.map((l) => ({ ...l, pixel: (l.pixel as number) + sigmaLine * normal() })),
       };
@@ -111,7 +135,10 @@ describe('pixel calibration: uncertainty', () => {
   it('the covariance is scaled up by χ²/dof when the scatter exceeds the stated σ', () => {
     const coeffs = LAWS[1];
     const wobble = [0.3, -0.25, 0.2, -0.3, 0.28, -0.22];
-    const points = [100, 400, 700, 1000, 1300, 1600].map((pixel, i) => ({ pixel, wavelength: law(coeffs, pixel) + wobble[i]! }));
+    const points = [100, 400, 700, 1000, 1300, 1600].map((pixel, i) => ({
+      pixel,
+      wavelength: law(coeffs, pixel) + wobble[i]!,
+    }));
     const text = pixelSession(points, [900], 1, '  sigma: 0.01\n');
     const r = reduced(text);
     expect(r.calibration!.description).toContain('scaled');
@@ -124,7 +151,10 @@ describe('pixel calibration: bad and doubtful input', () => {
   it('an outlier is flagged, kept, and warned about', () => {
     const coeffs = LAWS[1];
     const pixels = [100, 400, 700, 1000, 1300, 1600, 1900];
-    const points = pixels.map((pixel, i) => ({ pixel, wavelength: law(coeffs, pixel) + (i === 3 ? 5 : 0.01 * ((i % 3) - 1)) }));
+    const points = pixels.map((pixel, i) => ({
+      pixel,
+      wavelength: law(coeffs, pixel) + (i === 3 ? 5 : 0.01 * ((i % 3) - 1)),
+    }));
     const r = reduced(pixelSession(points, [800], 1));
     const cal = r.calibration!;
     expect(cal.points).toHaveLength(7);
@@ -138,7 +168,13 @@ describe('pixel calibration: bad and doubtful input', () => {
     const points = [100, 900].map((pixel) => ({ pixel, wavelength: law(LAWS[1], pixel) }));
     expectPositioned(failures(pixelSession(points, [500], 1)), 'too-few-calibration-lines');
     // The reducer keeps its own guard for Sessions built in code.
-    const ok = sessionOf(pixelSession([100, 500, 900].map((pixel) => ({ pixel, wavelength: law(LAWS[1], pixel) })), [500], 1));
+    const ok = sessionOf(
+      pixelSession(
+        [100, 500, 900].map((pixel) => ({ pixel, wavelength: law(LAWS[1], pixel) })),
+        [500],
+        1,
+      ),
+    );
     const cal = ok.measurement.calibration!;
     const broken: Session = { ...ok, measurement: { ...ok.measurement, calibration: { ...cal, degree: 2 } } };
     expectPositioned(reduceFailures(broken), 'too-few-calibration-lines', 'measurement.calibration.lines[0]');
@@ -166,7 +202,11 @@ describe('pixel calibration: bad and doubtful input', () => {
 
   it('extrapolation beyond the calibration lines is a warning', () => {
     const points = [300, 600, 900, 1200].map((pixel) => ({ pixel, wavelength: law(LAWS[1], pixel) }));
-    expect(reduced(pixelSession(points, [1500], 1)).warnings.some((w) => w.code === 'extrapolated' && w.field === 'lines[0].pixel')).toBe(true);
+    expect(
+      reduced(pixelSession(points, [1500], 1)).warnings.some(
+        (w) => w.code === 'extrapolated' && w.field === 'lines[0].pixel',
+      ),
+    ).toBe(true);
   });
 });
 
@@ -180,7 +220,12 @@ lines:
 ${lines}`;
 
   it('linear dispersion from the zeroth order: λ = D·|p − p₀|', () => {
-    const r = reduced(slitless('    zero_order_pixel: 210\n    dispersion_nm_per_px: 0.85', '  - pixel: 852.5\n    sigma: 1\n'));
+    const r = reduced(
+      slitless(
+        '    zero_order_pixel: 210\n    dispersion_nm_per_px: 0.85',
+        '  - pixel: 852.5\n    sigma: 1\n',
+      ),
+    );
     const air = 0.85 * (852.5 - 210);
     expect(r.lines[0]!.air_nm).toBeCloseTo(air, 9);
     expect(r.lines[0]!.sigma_nm / vacuumPerAirSlope(air)).toBeCloseTo(0.85, 9);
@@ -205,15 +250,25 @@ ${lines}`;
   });
 
   it('a line on the zeroth-order image is a diagnostic at its line', () => {
-    const d = failures(slitless('    zero_order_pixel: 210\n    dispersion_nm_per_px: 0.85', '  - pixel: 210\n'));
-    expect(d.some((x) => x.code === 'on-zero-order' && x.field === 'lines[0].pixel' && x.line === 8)).toBe(true);
+    const d = failures(
+      slitless('    zero_order_pixel: 210\n    dispersion_nm_per_px: 0.85', '  - pixel: 210\n'),
+    );
+    expect(d.some((x) => x.code === 'on-zero-order' && x.field === 'lines[0].pixel' && x.line === 8)).toBe(
+      true,
+    );
   });
 
   it('calibration lines given in slitless mode are checked and their residuals reported', () => {
     const r = reduced(
-      slitless('    zero_order_pixel: 0\n    dispersion_nm_per_px: 1\n    lines:\n      - { pixel: 500, wavelength: 500.5 }\n      - { pixel: 600, wavelength: 599.5 }', '  - pixel: 550\n'),
+      slitless(
+        '    zero_order_pixel: 0\n    dispersion_nm_per_px: 1\n    lines:\n      - { pixel: 500, wavelength: 500.5 }\n      - { pixel: 600, wavelength: 599.5 }',
+        '  - pixel: 550\n',
+      ),
     );
-    expect(r.calibration!.points.map((p) => p.residual_nm)).toEqual([expect.closeTo(0.5, 9), expect.closeTo(-0.5, 9)]);
+    expect(r.calibration!.points.map((p) => p.residual_nm)).toEqual([
+      expect.closeTo(0.5, 9),
+      expect.closeTo(-0.5, 9),
+    ]);
     expect(r.calibration!.rms_nm).toBeCloseTo(0.5, 9);
   });
 });

@@ -1,6 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import { vacuumPerAirSlope } from '../../src/reduce/airVacuum.js';
-import { expectPositioned, failures, gaussian, mulberry32, reduceFailures, reduced, sessionOf, standardDeviation } from './helpers.js';
+import {
+  expectPositioned,
+  failures,
+  gaussian,
+  mulberry32,
+  reduced,
+  reduceFailures,
+  sessionOf,
+  standardDeviation,
+} from './helpers.js';
 
 const session = (lines: string, distance = 'screen_distance_mm: 1000') => `lineledger: 1
 measurement:
@@ -25,8 +34,14 @@ describe('screen geometry', () => {
   });
 
   it('an offset on the negative side needs order −1', () => {
-    expect(Math.abs(reduced(session('  - offset_mm: -166.1\n    order: -1\n')).lines[0]!.air_nm - 546.074)).toBeLessThan(0.17);
-    expect(failures(session('  - offset_mm: -166.1\n')).some((d) => d.code === 'order-sign' && d.field === 'lines[0].offset_mm')).toBe(true);
+    expect(
+      Math.abs(reduced(session('  - offset_mm: -166.1\n    order: -1\n')).lines[0]!.air_nm - 546.074),
+    ).toBeLessThan(0.17);
+    expect(
+      failures(session('  - offset_mm: -166.1\n')).some(
+        (d) => d.code === 'order-sign' && d.field === 'lines[0].offset_mm',
+      ),
+    ).toBe(true);
   });
 
   it('σ from x and L matches a Monte-Carlo spread within 10 %', () => {
@@ -34,7 +49,12 @@ describe('screen geometry', () => {
     const sx = 2;
     const L = 800;
     const sL = 5;
-    const r = reduced(session(`  - offset_mm: ${x}\n    sigma: ${sx}\n`, `screen_distance_mm: ${L}\n  screen_distance_sigma_mm: ${sL}`));
+    const r = reduced(
+      session(
+        `  - offset_mm: ${x}\n    sigma: ${sx}\n`,
+        `screen_distance_mm: ${L}\n  screen_distance_sigma_mm: ${sL}`,
+      ),
+    );
     const normal = gaussian(mulberry32(20260314));
     const d = 1e6 / 300;
     // Independent forward model: λ = d·sin(atan(x/L)) = d·x/√(x² + L²).
@@ -52,7 +72,11 @@ describe('screen geometry', () => {
 describe('screen bad input', () => {
   it('zero or negative screen distances are rejected with their position', () => {
     for (const distance of ['screen_distance_mm: 0', 'screen_distance_mm: -500']) {
-      const d = expectPositioned(failures(session('  - offset_mm: 100\n', distance)), 'invalid-value', 'measurement.screen_distance_mm');
+      const d = expectPositioned(
+        failures(session('  - offset_mm: 100\n', distance)),
+        'invalid-value',
+        'measurement.screen_distance_mm',
+      );
       expect(d.line).toBe(5);
     }
   });

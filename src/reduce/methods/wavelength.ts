@@ -55,7 +55,8 @@ export function reduceWavelengths(session: Session): MethodResult {
 
 function defaultSigmaNm(session: Session): { sigma_nm: number; assumed: boolean } {
   const scale = NM_PER_UNIT[session.measurement.unit];
-  if (session.measurement.sigma !== null) return { sigma_nm: session.measurement.sigma * scale, assumed: false };
+  if (session.measurement.sigma !== null)
+    return { sigma_nm: session.measurement.sigma * scale, assumed: false };
   const fwhm = session.instrument.resolution_nm;
   if (fwhm !== null) return { sigma_nm: fwhm / FWHM_PER_SIGMA, assumed: false };
   const allGiven = session.lines.every((l) => l.sigma !== null);

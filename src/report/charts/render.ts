@@ -27,9 +27,25 @@ export async function renderChart(spec: TopLevelSpec, cache?: ChartCache): Promi
   const view = new View(parse(vg), { renderer: 'none' });
   const raw = await view.toSVG();
   view.finalize();
-  const svg = stabiliseIds(raw, hash.slice(0, 8));
+  const svg = labelled(
+    stabiliseIds(raw, hash.slice(0, 8)),
+    typeof spec.description === 'string' ? spec.description : 'Chart',
+  );
   cache?.set(hash, svg);
   return { svg, hash };
+}
+
+function escapeXml(s: string): string {
+  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+}
+
+/** The chart as one image with a text alternative (its description). */
+function labelled(svg: string, description: string): string {
+  const text = escapeXml(description);
+  // Inner graphics roles would make each mark container an unlabelled image of its own.
+  return svg
+    .replace(/\srole="graphics-[^"]*"/g, '')
+    .replace(/\saria-roledescription="[^"]*"/g, '').replace(/^<svg([^>]*)>/, `<svg$1 role="img" aria-label="${text}"><title>${text}</title>`);
 }
 
 function stabiliseIds(svg: string, prefix: string): string {

@@ -4,6 +4,9 @@ import { SPECIES_PALETTE, wavelengthToHex } from '../colour.js';
 
 const FONT = 'DejaVu Sans, Liberation Sans, Arial, sans-serif';
 const CONFIG = {
+  // Per-mark ARIA off: the whole chart is one image with a text alternative (set in render.ts),
+  // and the same numbers stand in a table beside it.
+  aria: false,
   font: FONT,
   view: { stroke: null },
   axis: { labelFontSize: 11, titleFontSize: 12, grid: false },
@@ -25,7 +28,8 @@ export function spectrumChart(input: SpectrumChartInput): TopLevelSpec {
   const [lo, hi] = input.range_nm;
   const band: { from: number; to: number; colour: string }[] = [];
   const step = Math.max(0.5, (hi - lo) / 300);
-  for (let x = lo; x < hi; x += step) band.push({ from: x, to: Math.min(hi, x + step), colour: wavelengthToHex(x + step / 2) });
+  for (let x = lo; x < hi; x += step)
+    band.push({ from: x, to: Math.min(hi, x + step), colour: wavelengthToHex(x + step / 2) });
   const x = {
     field: 'wavelength_nm',
     type: 'quantitative' as const,
@@ -36,19 +40,25 @@ export function spectrumChart(input: SpectrumChartInput): TopLevelSpec {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     description: input.title,
     config: CONFIG,
-    width: 640,
     vconcat: [
       {
+        width: 640,
         height: 14,
         data: { values: band },
         mark: { type: 'rect' },
         encoding: {
-          x: { field: 'from', type: 'quantitative', scale: { domain: [lo, hi], nice: false, zero: false }, axis: null },
+          x: {
+            field: 'from',
+            type: 'quantitative',
+            scale: { domain: [lo, hi], nice: false, zero: false },
+            axis: null,
+          },
           x2: { field: 'to' },
           color: { field: 'colour', type: 'nominal', scale: null, legend: null },
         },
       },
       {
+        width: 640,
         height: 200,
         layer: [
           {
@@ -72,11 +82,18 @@ export function spectrumChart(input: SpectrumChartInput): TopLevelSpec {
                 field: 'species',
                 type: 'nominal',
                 title: 'Reference (below axis)',
-                scale: { domain: input.species, range: [...SPECIES_PALETTE].slice(0, Math.max(1, input.species.length)) },
+                scale: {
+                  domain: input.species,
+                  range: [...SPECIES_PALETTE].slice(0, Math.max(1, input.species.length)),
+                },
               },
             },
           },
-          { data: { values: [{}] }, mark: { type: 'rule', color: '#555555' }, encoding: { y: { datum: 0, type: 'quantitative' } } },
+          {
+            data: { values: [{}] },
+            mark: { type: 'rule', color: '#555555' },
+            encoding: { y: { datum: 0, type: 'quantitative' } },
+          },
         ],
       },
     ],
@@ -91,8 +108,17 @@ export interface ResidualPoint {
 }
 
 /** Residual (measured − reference) against wavelength, with ±σ bars. */
-export function residualChart(title: string, unitLabel: string, points: ResidualPoint[], species: string[]): TopLevelSpec {
-  const rows = points.map((p) => ({ ...p, low: p.residual_nm - p.sigma_nm, high: p.residual_nm + p.sigma_nm }));
+export function residualChart(
+  title: string,
+  unitLabel: string,
+  points: ResidualPoint[],
+  species: string[],
+): TopLevelSpec {
+  const rows = points.map((p) => ({
+    ...p,
+    low: p.residual_nm - p.sigma_nm,
+    high: p.residual_nm + p.sigma_nm,
+  }));
   const colour = {
     field: 'species',
     type: 'nominal' as const,
@@ -111,7 +137,12 @@ export function residualChart(title: string, unitLabel: string, points: Residual
       {
         mark: { type: 'rule', strokeWidth: 1.5 },
         encoding: {
-          x: { field: 'wavelength_nm', type: 'quantitative', scale: { zero: false }, title: `Wavelength (${unitLabel})` },
+          x: {
+            field: 'wavelength_nm',
+            type: 'quantitative',
+            scale: { zero: false },
+            title: `Wavelength (${unitLabel})`,
+          },
           y: { field: 'low', type: 'quantitative', title: 'Residual (nm)' },
           y2: { field: 'high' },
           color: colour,
@@ -131,7 +162,10 @@ export function residualChart(title: string, unitLabel: string, points: Residual
 }
 
 /** Candidate scores (log-likelihood ratio, nats), best first. */
-export function scoreChart(title: string, rows: { species: string; score: number; chosen: boolean }[]): TopLevelSpec {
+export function scoreChart(
+  title: string,
+  rows: { species: string; score: number; chosen: boolean }[],
+): TopLevelSpec {
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     description: title,
@@ -176,8 +210,29 @@ export function calibrationChart(
         width: 640,
         height: 180,
         layer: [
-          { data: { values: curve }, mark: { type: 'line', color: '#555555' }, encoding: { x, y: { field: 'wavelength_nm', type: 'quantitative', scale: { zero: false }, title: 'Wavelength (nm)' } } },
-          { data: { values: rows }, mark: { type: 'point', filled: true, size: 60 }, encoding: { x, y: { field: 'wavelength_nm', type: 'quantitative' }, color: status, shape: status } },
+          {
+            data: { values: curve },
+            mark: { type: 'line', color: '#555555' },
+            encoding: {
+              x,
+              y: {
+                field: 'wavelength_nm',
+                type: 'quantitative',
+                scale: { zero: false },
+                title: 'Wavelength (nm)',
+              },
+            },
+          },
+          {
+            data: { values: rows },
+            mark: { type: 'point', filled: true, size: 60 },
+            encoding: {
+              x,
+              y: { field: 'wavelength_nm', type: 'quantitative' },
+              color: status,
+              shape: status,
+            },
+          },
         ],
       },
       {
@@ -186,7 +241,15 @@ export function calibrationChart(
         data: { values: rows },
         layer: [
           { mark: { type: 'rule', color: '#888888' }, encoding: { y: { datum: 0, type: 'quantitative' } } },
-          { mark: { type: 'point', filled: true, size: 60 }, encoding: { x, y: { field: 'residual_nm', type: 'quantitative', title: 'Residual (nm)' }, color: status, shape: status } },
+          {
+            mark: { type: 'point', filled: true, size: 60 },
+            encoding: {
+              x,
+              y: { field: 'residual_nm', type: 'quantitative', title: 'Residual (nm)' },
+              color: status,
+              shape: status,
+            },
+          },
         ],
       },
     ],

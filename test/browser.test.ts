@@ -1,0 +1,86 @@
+/**
+ * The demo site in real headless Chromium (Debian's package, driven by playwright-core):
+ * pages load from file:// with no console error and no failed request, charts are visible
+ * SVG with marks, axe-core finds no serious accessibility problem, print-to-PDF gives pages.
+ * Screenshots go to test-artifacts/.
+ */
+import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { type Browser, chromium } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+
+const CHROMIUM = '/usr/bin/chromium';
+const available = existsSync(CHROMIUM);
+if (!available && process.env.CI) throw new Error('CI must have Debian chromium installed (.ci/run installs it)');
+
+const SITE = resolve('site');
+const ARTIFACTS = resolve('test-artifacts');
+const pages = ['index.html', ...readdirSync(join(SITE, 'sessions')).map((id) => `sessions/${id}/index.html`)];
+
+describe.skipIf(!available)('demo site in headless Chromium', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    mkdirSync(ARTIFACTS, { recursive: true });
+    browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--no-first-run'],
+    });
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it.each(pages)('%s loads with no console error, no failed request, visible charts', async (page) => {
+    const tab = await browser.newPage({ viewport: { width: 1100, height: 900 } });
+    const errors: string[] = [];
+    const requests: string[] = [];
+    tab.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
+    tab.on('pageerror', (e) => errors.push(e.message));
+    tab.on('requestfailed', (r) => errors.push(`failed: ${r.url()}`));
+    tab.on('request', (r) => requests.push(r.url()));
+    await tab.goto(pathToFileURL(join(SITE, page)).href);
+    expect(errors).toEqual([]);
+    expect(requests.every((u) => u.startsWith('file://'))).toBe(true);
+    const charts = await tab.$$eval('figure.chart svg', (svgs) =>
+      svgs.map((s) => ({ w: s.getBoundingClientRect().width, marks: s.querySelectorAll('path, line, rect').length, label: s.getAttribute('aria-label') })),
+    );
+    if (page.startsWith('sessions')) expect(charts.length).toBeGreaterThanOrEqual(2);
+    for (const c of charts) {
+      expect(c.w).toBeGreaterThan(200);
+      expect(c.marks).toBeGreaterThan(3);
+      expect(c.label?.length ?? 0).toBeGreaterThan(10);
+    }
+    const scripts = await tab.$$eval('script', (s) => s.length);
+    expect(scripts).toBe(0);
+
+    // axe-core, injected only into the test browser, never into the site.
+    await tab.addScriptTag({ content: readFileSync(resolve('node_modules/axe-core/axe.min.js'), 'utf8') });
+    const violations = await tab.evaluate(async () => {
+      const w = window as unknown as { axe: { run: () => Promise<{ violations: { id: string; impact: string }[] }> } };
+      const r = await w.axe.run();
+      return r.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => v.id);
+    });
+    expect(violations).toEqual([]);
+    const shotName = page.replace(/\//g, '_').replace('.html', '.png');
+    await tab.screenshot({ path: join(ARTIFACTS, shotName), fullPage: true });
+    await tab.close();
+  });
+
+  it('prints a session record to PDF, A4 and Letter', async () => {
+    const tab = await browser.newPage();
+    await tab.goto(pathToFileURL(join(SITE, pages[1] as string)).href);
+    for (const format of ['A4', 'Letter'] as const) {
+      const pdf = await tab.pdf({ format, printBackground: false });
+      writeFileSync(join(ARTIFACTS, `session-${format}.pdf`), pdf);
+      const text = pdf.toString('latin1');
+      expect(text.startsWith('%PDF-')).toBe(true);
+      const pagesCount = (text.match(/\/Type\s*\/Page[^s]/g) ?? []).length;
+      expect(pagesCount).toBeGreaterThanOrEqual(2);
+      expect(pagesCount).toBeLessThanOrEqual(12);
+    }
+    await tab.close();
+  });
+});
