@@ -12,7 +12,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
 const CHROMIUM = '/usr/bin/chromium';
 const available = existsSync(CHROMIUM);
-if (!available && process.env.CI) throw new Error('CI must have Debian chromium installed (.ci/run installs it)');
+if (!available && process.env.CI)
+  throw new Error('CI must have Debian chromium installed (.ci/run installs it)');
 
 const SITE = resolve('site');
 const ARTIFACTS = resolve('test-artifacts');
@@ -24,7 +25,13 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     mkdirSync(ARTIFACTS, { recursive: true });
     browser = await chromium.launch({
       executablePath: CHROMIUM,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--no-first-run'],
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-background-networking',
+        '--no-first-run',
+      ],
     });
   });
   afterAll(async () => {
@@ -45,7 +52,11 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     expect(errors).toEqual([]);
     expect(requests.every((u) => u.startsWith('file://'))).toBe(true);
     const charts = await tab.$$eval('figure.chart svg', (svgs) =>
-      svgs.map((s) => ({ w: s.getBoundingClientRect().width, marks: s.querySelectorAll('path, line, rect').length, label: s.getAttribute('aria-label') })),
+      svgs.map((s) => ({
+        w: s.getBoundingClientRect().width,
+        marks: s.querySelectorAll('path, line, rect').length,
+        label: s.getAttribute('aria-label'),
+      })),
     );
     if (page.startsWith('sessions')) expect(charts.length).toBeGreaterThanOrEqual(2);
     for (const c of charts) {
@@ -59,7 +70,9 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     // axe-core, injected only into the test browser, never into the site.
     await tab.addScriptTag({ content: readFileSync(resolve('node_modules/axe-core/axe.min.js'), 'utf8') });
     const violations = await tab.evaluate(async () => {
-      const w = window as unknown as { axe: { run: () => Promise<{ violations: { id: string; impact: string }[] }> } };
+      const w = globalThis as unknown as {
+        axe: { run: () => Promise<{ violations: { id: string; impact: string }[] }> };
+      };
       const r = await w.axe.run();
       return r.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => v.id);
     });

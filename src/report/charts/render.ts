@@ -45,7 +45,8 @@ function labelled(svg: string, description: string): string {
   // Inner graphics roles would make each mark container an unlabelled image of its own.
   return svg
     .replace(/\srole="graphics-[^"]*"/g, '')
-    .replace(/\saria-roledescription="[^"]*"/g, '').replace(/^<svg([^>]*)>/, `<svg$1 role="img" aria-label="${text}"><title>${text}</title>`);
+    .replace(/\saria-roledescription="[^"]*"/g, '')
+    .replace(/^<svg([^>]*)>/, `<svg$1 role="img" aria-label="${text}"><title>${text}</title>`);
 }
 
 function stabiliseIds(svg: string, prefix: string): string {
