@@ -44,11 +44,23 @@ describe('lineledger build (demo)', () => {
       'tube-b-2026-03-14': ['Hg I'],
       'tube-d-2026-03-21': ['He I', 'Hg I'],
       'vega-2026-05-09': ['H I'],
+      'tube-e-2026-03-28': ['He I'],
+      'lamp-screen-2026-04-16': ['Hg I'],
+      'street-lamp-2026-04-24': ['Na I'],
     };
     for (const [id, species] of Object.entries(expected)) {
       const result = JSON.parse(readFileSync(join(out, 'sessions', id, 'result.json'), 'utf8'));
       expect(result.explanation.species, id).toEqual(species);
     }
+    const camera = JSON.parse(
+      readFileSync(join(out, 'sessions', 'street-lamp-2026-04-24', 'result.json'), 'utf8'),
+    );
+    expect(camera.calibration.degree).toBe(2);
+    expect(readFileSync(join(out, 'sessions', 'street-lamp-2026-04-24', 'index.html'), 'utf8')).toContain(
+      'Calibration',
+    );
+    const vega = JSON.parse(readFileSync(join(out, 'sessions', 'vega-2026-05-09', 'result.json'), 'utf8'));
+    expect(vega.shift.barycentric.correction_km_s).toBeTypeOf('number');
     const flame = JSON.parse(
       readFileSync(join(out, 'sessions', 'flame-salt-c-2026-04-02', 'result.json'), 'utf8'),
     );

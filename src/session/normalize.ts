@@ -327,12 +327,20 @@ function readLine(
         `cannot read the angle ${JSON.stringify(v)}`,
         "write decimal degrees or degrees and minutes such as 9° 26'",
       );
-    else if (Math.abs(deg) >= 90)
+    // A diffraction angle stays below 90°; table readings (left/right) run round a 0–360° circle.
+    else if (k === 'angle_deg' && Math.abs(deg) >= 90)
       problem(
         [...at, k],
         'invalid-angle',
         `an angle of ${deg.toFixed(3)}° is past 90°`,
         'a diffracted beam leaves the grating below 90°',
+      );
+    else if (k !== 'angle_deg' && (deg < 0 || deg >= 360))
+      problem(
+        [...at, k],
+        'invalid-angle',
+        `a table reading of ${deg.toFixed(3)}° is outside 0–360°`,
+        'write the reading as the table shows it',
       );
     return deg;
   };
