@@ -201,6 +201,12 @@ export function calibrationChart(
     title: null,
     scale: { domain: ['calibration line', 'flagged outlier'], range: ['#0072B2', '#D55E00'] },
   };
+  const shape = {
+    field: 'status',
+    type: 'nominal' as const,
+    title: null,
+    scale: { domain: ['calibration line', 'flagged outlier'], range: ['circle', 'diamond'] },
+  };
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     description: title,
@@ -230,7 +236,7 @@ export function calibrationChart(
               x,
               y: { field: 'wavelength_nm', type: 'quantitative' },
               color: status,
-              shape: status,
+              shape,
             },
           },
         ],
@@ -247,7 +253,7 @@ export function calibrationChart(
               x,
               y: { field: 'residual_nm', type: 'quantitative', title: 'Residual (nm)' },
               color: status,
-              shape: status,
+              shape,
             },
           },
         ],
