@@ -34,3 +34,7 @@ export const WGS84_FLATTENING = 1 / 298.257_223_563;
 
 /** Nominal mean angular velocity of the Earth's rotation, rad/s (IERS Conventions 2010; WGS 84). */
 export const EARTH_ROTATION_RAD_S = 7.292_115e-5;
+
+/** Angle units (mathematical identities). */
+export const RAD_PER_DEG = Math.PI / 180;
+export const DEG_PER_RAD = 180 / Math.PI;

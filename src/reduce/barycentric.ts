@@ -12,12 +12,11 @@
  * what a grating measurement can resolve.
  */
 import { BaryState, Body, MakeTime, Observer, ObserverState } from 'astronomy-engine';
-import { KM_PER_AU, SECONDS_PER_DAY } from '../constants.js';
+import { KM_PER_AU, RAD_PER_DEG, SECONDS_PER_DAY } from '../constants.js';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import type { Session } from '../session/types.js';
 import type { BarycentricCorrection } from './types.js';
 
-const RAD_PER_DEG = Math.PI / 180;
 const KM_S_PER_AU_DAY = KM_PER_AU / SECONDS_PER_DAY;
 
 export interface BarycentricInput {

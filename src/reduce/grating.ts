@@ -10,10 +10,9 @@
  * positive on the source's side of the normal, and at normal incidence both types reduce to
  * m·λ = d·sin θ. Positive orders lie on the side of positive angles.
  */
+import { RAD_PER_DEG } from '../constants.js';
 import type { Diagnostic } from '../diagnostics.js';
 import type { RawLine, Session } from '../session/types.js';
-
-const RAD_PER_DEG = Math.PI / 180;
 
 export interface GratingSetup {
   spacing_nm: number;

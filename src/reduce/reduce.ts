@@ -2,7 +2,6 @@
  * The reduce stage: raw readings → vacuum, rest-frame wavelengths with uncertainties.
  * Pure: a Session in, a Reduction (or diagnostics) out.
  */
-import { FWHM_PER_SIGMA } from '../constants.js';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import type { MeasurementMethod, Session } from '../session/types.js';
 import { airToVacuum, vacuumPerAirSlope, vacuumToAir } from './airVacuum.js';
@@ -108,9 +107,4 @@ function resolutionNm(session: Session, lines: MeasuredLine[]): number | null {
   const sorted = lines.map((l) => l.vacuum_nm).sort((a, b) => a - b);
   const middle = sorted[Math.floor(sorted.length / 2)]!;
   return middle / power;
-}
-
-/** The Gaussian sigma equivalent of a FWHM. */
-export function sigmaFromFwhm(fwhm_nm: number): number {
-  return fwhm_nm / FWHM_PER_SIGMA;
 }

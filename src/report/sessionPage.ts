@@ -1,5 +1,4 @@
 /** One session's record page: the view model the template fills, and its charts. */
-import { formatDiagnosticLine } from '../diagnostics.js';
 import type { Identification } from '../identify/types.js';
 import type { Catalog } from '../lines/types.js';
 import type { Reduction } from '../reduce/types.js';
@@ -93,10 +92,11 @@ export async function sessionPageModel(
     cache,
   );
 
+  const measuredByIndex = new Map(reduction.lines.map((m) => [m.index, m]));
   const residualPoints = idn.lines
     .filter((l) => l.assignment)
     .map((l) => {
-      const line = reduction.lines.find((m) => m.index === l.index);
+      const line = measuredByIndex.get(l.index);
       return {
         wavelength_nm: display(l.assignment?.ref_vacuum_nm ?? 0, medium),
         residual_nm: l.assignment?.residual_nm ?? 0,
@@ -241,8 +241,4 @@ export async function sessionPageModel(
     buildOptions: input.buildOptions,
     sources,
   };
-}
-
-export function warningLines(warnings: readonly import('../diagnostics.js').Diagnostic[]): string[] {
-  return warnings.map(formatDiagnosticLine);
 }

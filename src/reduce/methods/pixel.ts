@@ -6,6 +6,7 @@
  * mode (a grating in front of a camera), the zeroth-order image is the origin and either a
  * known dispersion or the camera geometry with the grating equation gives λ.
  */
+import { DEG_PER_RAD } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
 import type { CalibrationPoint, RawLine, Session } from '../../session/types.js';
 import {
@@ -41,8 +42,6 @@ export const OUTLIER_THRESHOLD = 3;
  * rounding size only, and those must not be called outliers.
  */
 const SCATTER_FLOOR_NM = 1e-6;
-
-const DEG_PER_RAD = 180 / Math.PI;
 
 type Calibration = NonNullable<Session['measurement']['calibration']>;
 

@@ -3,6 +3,7 @@
  * θ = atan(x / L) with x the offset from the central maximum, or x = s / 2 from the
  * separation s between the +m and −m maxima; then the grating equation (../grating.ts).
  */
+import { DEG_PER_RAD } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
 import type { RawLine, Session } from '../../session/types.js';
 import {
@@ -18,8 +19,6 @@ import type { MethodResult, ObservedReading } from '../types.js';
 
 /** A maximum marked by eye on a screen is usually good to about a millimetre (common practice). */
 export const DEFAULT_SCREEN_SIGMA_MM = 1;
-
-const DEG_PER_RAD = 180 / Math.PI;
 
 interface ScreenReading {
   x_mm: number;
