@@ -10,12 +10,15 @@ import type { Catalog } from './lines/types.js';
 import { runSession, type SessionOutcome } from './pipeline.js';
 import { renderSite, type SiteFile, type SiteSettings } from './report/site.js';
 import { compileTemplates, type Templates } from './report/templates.js';
+import type { InstrumentSpec } from './session/types.js';
 import { writeSiteAtomically } from './write/writeSite.js';
 
 export interface BuildOptions {
   inputDir: string;
   outDir: string;
   settings: SiteSettings;
+  /** lineledger.yaml's default_instrument, inherited by sessions that give none. */
+  instrumentDefaults?: InstrumentSpec | null;
   programVersion: string;
   /** SOURCE_DATE_EPOCH, when the environment sets it. */
   sourceDateEpoch: string | undefined;
@@ -84,7 +87,11 @@ export async function buildSite(
 ): Promise<BuildReport> {
   const paths = listSessionFiles(options.inputDir);
   const inputs = paths.map((p) => ({ path: p, bytes: readFileSync(p) }));
-  const outcomes = rejectDuplicateIds(inputs.map((i) => runSession(i.path, i.bytes, catalog)));
+  const outcomes = rejectDuplicateIds(
+    inputs.map((i) =>
+      runSession(i.path, i.bytes, catalog, { instrumentDefaults: options.instrumentDefaults ?? null }),
+    ),
+  );
   const files = await renderSite({
     outcomes: outcomes.map((outcome, k) => ({
       outcome,

@@ -8,7 +8,7 @@ import type { Identification } from './identify/types.js';
 import type { Catalog } from './lines/types.js';
 import { reduceSession } from './reduce/reduce.js';
 import type { Reduction } from './reduce/types.js';
-import { readSessionText } from './session/read.js';
+import { type ReadOptions, readSessionText } from './session/read.js';
 import type { Session } from './session/types.js';
 
 export type SessionOutcome =
@@ -22,8 +22,13 @@ export type SessionOutcome =
     }
   | { ok: false; file: string; session: Session | null; diagnostics: Diagnostic[] };
 
-export function runSession(file: string, bytes: Uint8Array | string, catalog: Catalog): SessionOutcome {
-  const read = readSessionText(bytes, file);
+export function runSession(
+  file: string,
+  bytes: Uint8Array | string,
+  catalog: Catalog,
+  options: ReadOptions = {},
+): SessionOutcome {
+  const read = readSessionText(bytes, file, options);
   if (!read.ok) return { ok: false, file, session: null, diagnostics: read.diagnostics };
   const reduced = reduceSession(read.value);
   if (!reduced.ok) return { ok: false, file, session: read.value, diagnostics: reduced.diagnostics };

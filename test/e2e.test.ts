@@ -6,7 +6,6 @@ import { join, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
 const CLI = join(process.cwd(), 'dist', 'cli.js');
-const DEMO_TITLE = 'Hollins Lane Science Club — spectral line archive';
 
 function run(args: string[], env: Record<string, string> = {}) {
   const r = spawnSync(process.execPath, [CLI, ...args], {
@@ -31,11 +30,14 @@ function files(dir: string): string[] {
 
 describe('lineledger build (demo)', () => {
   const out = join(mkdtempSync(join(tmpdir(), 'll-demo-')), 'site');
-  const built = run(['build', 'data/sessions', '--out', out, '--title', DEMO_TITLE]);
+  // Same as `npm run demo` (which reads ./lineledger.yaml), into a temporary folder.
+  const built = run(['build', '--out', out]);
 
-  it('builds every demo session', () => {
+  it('builds every demo session, with the project config’s title and introduction', () => {
     expect(built.code, built.stderr).toBe(0);
-    expect(existsSync(join(out, 'index.html'))).toBe(true);
+    const index = readFileSync(join(out, 'index.html'), 'utf8');
+    expect(index).toContain('<title>Hollins Lane Science Club — spectral line archive</title>');
+    expect(index).toContain('prep room, optics bench');
     for (const f of readdirSync('data/sessions')) expect(f).toMatch(/\.yaml$/);
   });
 

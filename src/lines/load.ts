@@ -1,6 +1,6 @@
 /** The read edge for the catalog: the bundled data folder (or another) from disk. */
 import { readdirSync, readFileSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Outcome } from '../diagnostics.js';
 import { type CatalogInput, parseCatalog } from './parse.js';
@@ -11,7 +11,16 @@ export function bundledDataDir(): string {
   return resolve(dirname(fileURLToPath(import.meta.url)), '..', '..', 'data');
 }
 
-export function readCatalogInput(dataDir: string = bundledDataDir()): CatalogInput {
+/** A project's own line list (config `catalogs:`), as absolute paths. */
+export interface ExtraCatalog {
+  lines: string;
+  sources: string;
+}
+
+export function readCatalogInput(
+  dataDir: string = bundledDataDir(),
+  extras: readonly ExtraCatalog[] = [],
+): CatalogInput {
   const linesDir = join(dataDir, 'lines');
   const names = readdirSync(linesDir)
     .filter((n) => n.endsWith('.tsv'))
@@ -25,12 +34,18 @@ export function readCatalogInput(dataDir: string = bundledDataDir()): CatalogInp
   }
   return {
     version: readFileSync(join(linesDir, 'VERSION'), 'utf8'),
-    lineFiles: names.map((n) => read(join(linesDir, n), n)),
-    sourcesYaml: read(join(linesDir, 'sources.yaml'), 'sources.yaml'),
+    lineFiles: [
+      ...names.map((n) => read(join(linesDir, n), n)),
+      ...extras.map((e) => read(e.lines, `project:${basename(e.lines)}`)),
+    ],
+    sourceFiles: [
+      read(join(linesDir, 'sources.yaml'), 'sources.yaml'),
+      ...extras.map((e) => read(e.sources, `project:${basename(e.sources)}`)),
+    ],
     groupsYaml,
   };
 }
 
-export function loadCatalog(dataDir?: string): Outcome<Catalog> {
-  return parseCatalog(readCatalogInput(dataDir));
+export function loadCatalog(dataDir?: string, extras: readonly ExtraCatalog[] = []): Outcome<Catalog> {
+  return parseCatalog(readCatalogInput(dataDir, extras));
 }

@@ -40,14 +40,15 @@ interface Row {
 export interface CatalogInput {
   version: string;
   lineFiles: CatalogFile[];
-  sourcesYaml: CatalogFile;
+  /** The bundled sources.yaml first, then any the project adds for its own lists. */
+  sourceFiles: CatalogFile[];
   groupsYaml: CatalogFile | null;
 }
 
 export function catalogSha256(input: CatalogInput): string {
   const hash = createHash('sha256');
   const files = [...input.lineFiles].sort((a, b) => (a.name < b.name ? -1 : 1));
-  for (const f of [...files, input.sourcesYaml]) hash.update(`${f.name}\n`).update(f.text);
+  for (const f of [...files, ...input.sourceFiles]) hash.update(`${f.name}\n`).update(f.text);
   return hash.digest('hex');
 }
 
@@ -56,7 +57,13 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
   const problem = (file: string, line: number, col: number, field: string, message: string) =>
     diagnostics.push({ file, line, col, severity: 'error', code: 'catalog', field, message });
 
-  const sources = parseSources(input.sourcesYaml, problem);
+  const sources = new Map<string, SourceCitation>();
+  for (const file of input.sourceFiles) {
+    for (const [key, citation] of parseSources(file, problem)) {
+      if (sources.has(key)) problem(file.name, 1, 1, key, `source key "${key}" is defined twice`);
+      else sources.set(key, citation);
+    }
+  }
   const rows: Row[] = [];
   for (const file of input.lineFiles) rows.push(...parseLineFile(file, sources, problem));
 

@@ -22,6 +22,7 @@ export interface SiteFile {
 
 export interface SiteSettings {
   title: string;
+  owner: string | null;
   introMarkdown: string;
 }
 

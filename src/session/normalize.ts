@@ -9,6 +9,7 @@ import { INTENSITY_WORDS, type LineDocument, type SessionDocument } from './sche
 import type {
   BarycentricRequest,
   GratingSpec,
+  InstrumentSpec,
   LineKind,
   MeasurementMethod,
   MeasurementSpec,
@@ -45,6 +46,7 @@ export function normalizeSession(
   source: YamlSource,
   file: string,
   bytes: Uint8Array | string,
+  defaults: InstrumentSpec | null = null,
 ): { session: Session | null; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   const problem = (path: FieldPath, code: string, message: string, hint?: string, key = false) => {
@@ -177,10 +179,15 @@ export function normalizeSession(
       : null,
     source: { kind: doc.source?.kind ?? 'unknown', name: doc.source?.name ?? null },
     instrument: {
-      description: doc.instrument?.description ?? null,
-      resolution_nm: doc.instrument?.resolution_nm ?? null,
-      resolving_power: doc.instrument?.resolving_power ?? null,
-      range_nm: range ? [range[0]!, range[1]!] : null,
+      description: doc.instrument?.description ?? defaults?.description ?? null,
+      // A session's own resolution (either form) wins over both forms of the default.
+      resolution_nm:
+        doc.instrument?.resolution_nm ??
+        (doc.instrument?.resolving_power ? null : (defaults?.resolution_nm ?? null)),
+      resolving_power:
+        doc.instrument?.resolving_power ??
+        (doc.instrument?.resolution_nm ? null : (defaults?.resolving_power ?? null)),
+      range_nm: range ? [range[0]!, range[1]!] : (defaults?.range_nm ?? null),
     },
     medium: doc.medium ?? 'air',
     candidates: {

@@ -4,7 +4,7 @@
  */
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import { normalizeSession } from './normalize.js';
-import type { Session } from './types.js';
+import type { InstrumentSpec, Session } from './types.js';
 import { validateDocument } from './validate.js';
 import { parseYamlSource } from './yamlSource.js';
 
@@ -14,6 +14,12 @@ export interface ReadLimits {
 }
 
 export const DEFAULT_READ_LIMITS: ReadLimits = { maxBytes: 2 * 1024 * 1024, maxAliasCount: 50 };
+
+export interface ReadOptions {
+  limits?: ReadLimits;
+  /** The project's default instrument (lineledger.yaml), used where the session gives none. */
+  instrumentDefaults?: InstrumentSpec | null;
+}
 
 function fileProblem(
   file: string,
@@ -29,8 +35,9 @@ function fileProblem(
 export function readSessionText(
   bytes: Uint8Array | string,
   file: string,
-  limits: ReadLimits = DEFAULT_READ_LIMITS,
+  options: ReadOptions = {},
 ): Outcome<Session> {
+  const limits = options.limits ?? DEFAULT_READ_LIMITS;
   const size = typeof bytes === 'string' ? Buffer.byteLength(bytes) : bytes.byteLength;
   if (size > limits.maxBytes) {
     return {
@@ -81,7 +88,13 @@ export function readSessionText(
   if (!parsed.source) return { ok: false, diagnostics: parsed.diagnostics };
   const validated = validateDocument(parsed.source, file);
   if (!validated.document) return { ok: false, diagnostics: validated.diagnostics };
-  const normalized = normalizeSession(validated.document, parsed.source, file, bytes);
+  const normalized = normalizeSession(
+    validated.document,
+    parsed.source,
+    file,
+    bytes,
+    options.instrumentDefaults ?? null,
+  );
   if (!normalized.session) return { ok: false, diagnostics: normalized.diagnostics };
   return { ok: true, value: normalized.session, warnings: normalized.diagnostics };
 }

@@ -77,6 +77,13 @@ export interface RawLine {
   label: string | null;
 }
 
+export interface InstrumentSpec {
+  description: string | null;
+  resolution_nm: number | null;
+  resolving_power: number | null;
+  range_nm: [number, number] | null;
+}
+
 export interface Session {
   id: string;
   file: string;
@@ -85,12 +92,7 @@ export interface Session {
   observer: string | null;
   site: { name: string | null; lat: number | null; lon: number | null; elevation_m: number | null } | null;
   source: { kind: SourceKind; name: string | null };
-  instrument: {
-    description: string | null;
-    resolution_nm: number | null;
-    resolving_power: number | null;
-    range_nm: [number, number] | null;
-  };
+  instrument: InstrumentSpec;
   medium: Medium;
   candidates: { groups: string[]; species: string[]; exclude: string[] };
   shift: ShiftRequest;

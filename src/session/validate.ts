@@ -3,7 +3,8 @@
  * diagnostics at the right file:line:col. `allErrors` so that every problem of a file is
  * reported in one go.
  */
-import { Ajv, type ErrorObject } from 'ajv';
+import type { TSchema } from '@sinclair/typebox';
+import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
 import type { Diagnostic } from '../diagnostics.js';
 import { type SessionDocument, SessionSchema } from './schema.js';
 import { didYouMean } from './suggest.js';
@@ -12,6 +13,11 @@ import { type FieldPath, fieldName, type YamlSource } from './yamlSource.js';
 const ajv = new Ajv({ allErrors: true, verbose: true, strict: true, allowUnionTypes: true });
 ajv.addKeyword({ keyword: 'x-expect', schemaType: 'string' });
 const validateSession = ajv.compile<SessionDocument>(SessionSchema);
+
+/** A validator for another document type (the project config), with the same diagnostics. */
+export function compileValidator<T>(schema: TSchema): ValidateFunction<T> {
+  return ajv.compile<T>(schema);
+}
 
 function pathOf(instancePath: string): (string | number)[] {
   if (!instancePath) return [];
@@ -32,8 +38,16 @@ export function validateDocument(
   source: YamlSource,
   file: string,
 ): { document: SessionDocument | null; diagnostics: Diagnostic[] } {
-  if (validateSession(source.data)) return { document: source.data, diagnostics: [] };
-  const errors = validateSession.errors ?? [];
+  return validateWith(validateSession, source, file);
+}
+
+export function validateWith<T>(
+  validate: ValidateFunction<T>,
+  source: YamlSource,
+  file: string,
+): { document: T | null; diagnostics: Diagnostic[] } {
+  if (validate(source.data)) return { document: source.data, diagnostics: [] };
+  const errors = validate.errors ?? [];
   const unions = errors.filter((e) => e.keyword === 'anyOf');
   const shown = errors.filter(
     (e) =>
