@@ -32,12 +32,12 @@ export function runSession(
   if (!read.ok) return { ok: false, file, session: null, diagnostics: read.diagnostics };
   const reduced = reduceSession(read.value);
   if (!reduced.ok) return { ok: false, file, session: read.value, diagnostics: reduced.diagnostics };
-  const { identification, warnings } = identify(reduced.value, catalog);
+  const { identification, reduction, warnings } = identify(reduced.value, catalog);
   return {
     ok: true,
     file,
     session: read.value,
-    reduction: reduced.value,
+    reduction,
     identification,
     warnings: [...read.warnings, ...reduced.warnings, ...warnings],
   };

@@ -11,10 +11,12 @@ import { bestMatching } from './match.js';
 import type { ContendingExplanation, Match, PreparedSpecies, RefLine } from './types.js';
 
 export const MAX_SPECIES = 4;
+/** Largest false-alarm probability (chance of as many matches from random lines) a species may have to join. */
+export const MAX_FALSE_ALARM = 0.05;
 const MAX_POOL = 12;
 
 export function speciesPenalty(candidateCount: number): number {
-  return Math.log(Math.max(2, candidateCount)) + 1;
+  return 0.5 * Math.log(Math.max(2, candidateCount)) + 1;
 }
 
 export interface ScoredSet {
@@ -70,7 +72,7 @@ export interface MixtureResult {
 }
 
 export function selectMixture(
-  singles: readonly { species: string; score: number }[],
+  singles: readonly { species: string; score: number; false_alarm: number; matched: number }[],
   prepared: ReadonlyMap<string, PreparedSpecies>,
   ctx: EvidenceContext,
   candidateCount: number,
@@ -81,6 +83,11 @@ export function selectMixture(
     .sort((a, b) => b.score - a.score || a.species.localeCompare(b.species))
     .slice(0, MAX_POOL)
     .map((s) => s.species);
+  // A species that matches a single line which chance alone would often give is not added
+  // to the answer: it would only "explain" a stray line. It still stands as a rival below.
+  const mayJoin = new Set(
+    singles.filter((s) => s.matched >= 2 || s.false_alarm <= MAX_FALSE_ALARM).map((s) => s.species),
+  );
   const visited = new Map<string, ScoredSet>();
   const score = (set: readonly string[]): ScoredSet => {
     const key = [...set].sort().join('|');
@@ -94,7 +101,7 @@ export function selectMixture(
   while (current.species.length < MAX_SPECIES) {
     let next: ScoredSet | null = null;
     for (const s of pool) {
-      if (current.species.includes(s)) continue;
+      if (current.species.includes(s) || !mayJoin.has(s)) continue;
       const trial = score([...current.species, s]);
       if (next === null || trial.total > next.total) next = trial;
     }

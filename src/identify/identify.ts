@@ -6,35 +6,72 @@ import { FWHM_PER_SIGMA } from '../constants.js';
 import type { Diagnostic } from '../diagnostics.js';
 import type { Catalog } from '../lines/types.js';
 import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
-import { residualVelocity_km_s } from '../reduce/doppler.js';
+import { redshiftFromVelocity, residualVelocity_km_s } from '../reduce/doppler.js';
 import type { MeasuredLine, Reduction } from '../reduce/types.js';
 import { candidateSpecies, isTelluric } from './candidates.js';
 import { type EvidenceContext, evaluateSpecies } from './evidence.js';
 import { posterior, selectMixture } from './explain.js';
 import type { MeasuredPoint } from './match.js';
-import { pairSigma, WINDOW_SIGMAS } from './model.js';
+import { calibratedConfidence, pairSigma, statusFor, WINDOW_SIGMAS } from './model.js';
 import { refsInRange } from './prepare.js';
+import { searchShift } from './shiftSearch.js';
 import { describeExplanation } from './summary.js';
 import type {
   AssignedLine,
   Explanation,
   Identification,
-  IdentificationStatus,
   PreparedSpecies,
   RefLine,
   SpeciesEvidence,
 } from './types.js';
 
-/** An explanation this probable or better is reported as identified; below, as ambiguous. */
-export const IDENTIFIED_THRESHOLD = 0.7;
 /** Lines a measurement gives no σ for are never narrower than this (avoids zero-width windows). */
 export const MIN_SIGMA_NM = 0.005;
 
-export function identify(
-  reduction: Reduction,
-  catalog: Catalog,
-): { identification: Identification; warnings: Diagnostic[] } {
-  const { species: pool, warnings } = candidateSpecies(reduction.session, catalog);
+export interface IdentifyOutcome {
+  identification: Identification;
+  /** The reduction as identified: with a searched shift applied when one was found. */
+  reduction: Reduction;
+  warnings: Diagnostic[];
+}
+
+/** The identify stage: a known shift was removed by reduce; a searched one is found here. */
+export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcome {
+  const { warnings } = candidateSpecies(reduction.session, catalog);
+  const request = reduction.session.shift;
+  const core = (r: Reduction) => identifyAtRest(r, catalog);
+  if (request.mode === 'redshift-search' || request.mode === 'velocity-search') {
+    const range =
+      request.mode === 'redshift-search'
+        ? { mode: 'redshift' as const, z_from: request.from, z_to: request.to }
+        : {
+            mode: 'velocity' as const,
+            z_from: redshiftFromVelocity(request.from_km_s),
+            z_to: redshiftFromVelocity(request.to_km_s),
+          };
+    const searched = searchShift(reduction, catalog, core, range);
+    if (searched) {
+      if (searched.found.warning) {
+        warnings.push({
+          file: reduction.session.file,
+          line: 1,
+          col: 1,
+          severity: 'warning',
+          code: 'shift-uncertain',
+          field: 'shift',
+          message: searched.found.warning,
+          hint: 'add lines or narrow the search range',
+        });
+      }
+      return { identification: searched.identification, reduction: searched.reduction, warnings };
+    }
+  }
+  return { identification: core(reduction), reduction, warnings };
+}
+
+/** Identification of lines already in their rest frame. */
+export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identification {
+  const { species: pool } = candidateSpecies(reduction.session, catalog);
   const z = reduction.shift?.z ?? 0;
   const sorted = [...reduction.lines].sort(
     (a, b) => a.rest_vacuum_nm - b.rest_vacuum_nm || a.index - b.index,
@@ -87,7 +124,8 @@ export function identify(
 
   const best = mixture.best;
   const bestKey = best.species.join('|');
-  const confidence = contenders.find((c) => c.species.join('|') === bestKey)?.probability ?? 0;
+  const rawConfidence = contenders.find((c) => c.species.join('|') === bestKey)?.probability ?? 0;
+  const confidence = calibratedConfidence(rawConfidence);
   const assignedByPoint = new Map(best.matches.map((m) => [m.line, m]));
   const lines: AssignedLine[] = sorted.map((line, i) => {
     const m = assignedByPoint.get(i);
@@ -108,12 +146,7 @@ export function identify(
   });
   lines.sort((a, b) => a.index - b.index);
   const unexplained = lines.filter((l) => l.assignment === null).map((l) => l.index);
-  const status: IdentificationStatus =
-    best.species.length === 0
-      ? 'unexplained'
-      : confidence >= IDENTIFIED_THRESHOLD
-        ? 'identified'
-        : 'ambiguous';
+  const status = statusFor(best.species, confidence);
   const shown = contenders.filter((c) => c.probability >= 0.01).slice(0, 5);
   const discriminators =
     status === 'ambiguous'
@@ -122,23 +155,23 @@ export function identify(
   const explanation: Explanation = {
     species: best.species,
     confidence,
+    raw_confidence: rawConfidence,
     status,
     unexplained,
     contenders: shown,
     discriminators,
     summary: '',
+    score: best.total,
   };
   explanation.summary = describeExplanation(explanation, lines.length, reduction.medium);
   return {
-    identification: {
-      candidates: evidence,
-      explanation,
-      lines,
-      considered: pool,
-      range_nm: range,
-      fwhm_nm: fwhm,
-    },
-    warnings,
+    candidates: evidence,
+    explanation,
+    lines,
+    considered: pool,
+    range_nm: range,
+    fwhm_nm: fwhm,
+    shift: null,
   };
 }
 

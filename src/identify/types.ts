@@ -80,8 +80,12 @@ export interface ContendingExplanation {
 
 export interface Explanation {
   species: string[];
-  /** Probability that exactly this set is right, among the explanations weighed. */
+  /** Calibrated probability that exactly this set is right (see model.ts). */
   confidence: number;
+  /** Its posterior share among the explanations weighed, before calibration. */
+  raw_confidence: number;
+  /** Joint log-likelihood ratio of the set, less the per-species penalties (nats). */
+  score: number;
   status: IdentificationStatus;
   /** Session line indices that no species explains. */
   unexplained: number[];
@@ -100,4 +104,30 @@ export interface Identification {
   /** Range in rest vacuum nm within which lines were expected. */
   range_nm: [number, number];
   fwhm_nm: number;
+  /** The shift found by a search, when the session asked for one (else null). */
+  shift: ShiftFound | null;
+}
+
+export interface ScanPoint {
+  z: number;
+  velocity_km_s: number;
+  score: number;
+}
+
+export interface ShiftFound {
+  mode: 'redshift' | 'velocity';
+  z: number;
+  z_sigma: number;
+  velocity_km_s: number;
+  velocity_sigma_km_s: number;
+  /** Lines whose matches fixed the shift. */
+  lines_used: number;
+  score: number;
+  step_z: number;
+  scan: ScanPoint[];
+  runner_up: { z: number; velocity_km_s: number; score: number } | null;
+  warning: string | null;
+  /** Barycentric values when the session gave a barycentric correction. */
+  barycentric_velocity_km_s: number | null;
+  barycentric_z: number | null;
 }

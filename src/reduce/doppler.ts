@@ -28,3 +28,19 @@ export function toRestFrame(observed_nm: number, z: number): number {
 export function residualVelocity_km_s(residual_nm: number, wavelength_nm: number): number {
   return (SPEED_OF_LIGHT_KM_S * residual_nm) / wavelength_nm;
 }
+
+/**
+ * Observed vacuum wavelength ± σ → rest frame for a shift z ± σ_z, first-order propagation:
+ * σ_rest² = (σ_obs/(1+z))² + (λ_obs σ_z/(1+z)²)².
+ */
+export function restFrame(
+  observed_nm: number,
+  sigma_nm: number,
+  z: number,
+  z_sigma: number,
+): { rest_nm: number; rest_sigma_nm: number } {
+  return {
+    rest_nm: observed_nm / (1 + z),
+    rest_sigma_nm: Math.hypot(sigma_nm / (1 + z), (observed_nm * z_sigma) / (1 + z) ** 2),
+  };
+}

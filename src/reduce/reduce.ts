@@ -6,6 +6,7 @@ import type { Diagnostic, Outcome } from '../diagnostics.js';
 import type { MeasurementMethod, Session } from '../session/types.js';
 import { airToVacuum, vacuumPerAirSlope, vacuumToAir } from './airVacuum.js';
 import { combineReadings } from './combine.js';
+import { restFrame } from './doppler.js';
 import { reduceGratingAngles } from './methods/gratingAngle.js';
 import { reducePixels } from './methods/pixel.js';
 import { reduceScreen } from './methods/screen.js';
@@ -62,9 +63,7 @@ export function reduceSession(session: Session): Outcome<Reduction> {
     const isAir = session.medium === 'air';
     const vacuum_nm = isAir ? airToVacuum(r.wavelength_nm) : r.wavelength_nm;
     const sigma_nm = isAir ? r.sigma_nm * vacuumPerAirSlope(r.wavelength_nm) : r.sigma_nm;
-    const rest_vacuum_nm = vacuum_nm / (1 + z);
-    // σ_rest² = (σ_obs/(1+z))² + (λ_obs σ_z/(1+z)²)²  (first-order propagation)
-    const rest_sigma_nm = Math.hypot(sigma_nm / (1 + z), (vacuum_nm * zSigma) / (1 + z) ** 2);
+    const { rest_nm: rest_vacuum_nm, rest_sigma_nm } = restFrame(vacuum_nm, sigma_nm, z, zSigma);
     return {
       index: r.index,
       combined_indices: r.combined_indices,

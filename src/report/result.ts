@@ -62,6 +62,16 @@ export interface ResultJson {
     velocity_km_s: number;
     velocity_sigma_km_s: number;
     barycentric: unknown;
+    /** Only for a searched shift. */
+    search?: {
+      mode: string;
+      lines_used: number;
+      step_z: number;
+      barycentric_velocity_km_s: number | null;
+      runner_up: { z: number; velocity_km_s: number; score: number } | null;
+      warning: string | null;
+      scan: { z: number; velocity_km_s: number; score: number }[];
+    };
   } | null;
   calibration: CalibrationResult | null;
   range_nm: [number, number];
@@ -147,18 +157,53 @@ export function buildResult(
         air_nm: r(d.air_nm, 4),
       })),
     },
-    shift: reduction.shift
-      ? {
-          source: reduction.shift.source,
-          z: r(reduction.shift.z, 8),
-          z_sigma: r(reduction.shift.z_sigma, 8),
-          velocity_km_s: r(reduction.shift.velocity_km_s, 4),
-          velocity_sigma_km_s: r(reduction.shift.velocity_sigma_km_s, 4),
-          barycentric: reduction.shift.barycentric,
-        }
-      : null,
+    shift: shiftJson(reduction, identification),
     calibration: reduction.calibration,
     range_nm: [r(identification.range_nm[0], 4), r(identification.range_nm[1], 4)],
     fwhm_nm: r(identification.fwhm_nm, 4),
+  };
+}
+
+function shiftJson(reduction: Reduction, identification: Identification): ResultJson['shift'] {
+  const found = identification.shift;
+  if (found) {
+    return {
+      source: 'search',
+      z: r(found.z, 8),
+      z_sigma: r(found.z_sigma, 8),
+      velocity_km_s: r(found.velocity_km_s, 4),
+      velocity_sigma_km_s: r(found.velocity_sigma_km_s, 4),
+      barycentric: reduction.shift?.barycentric ?? null,
+      search: {
+        mode: found.mode,
+        lines_used: found.lines_used,
+        step_z: r(found.step_z, 8),
+        barycentric_velocity_km_s:
+          found.barycentric_velocity_km_s === null ? null : r(found.barycentric_velocity_km_s, 4),
+        runner_up: found.runner_up
+          ? {
+              z: r(found.runner_up.z, 8),
+              velocity_km_s: r(found.runner_up.velocity_km_s, 3),
+              score: r(found.runner_up.score, 3),
+            }
+          : null,
+        warning: found.warning,
+        scan: found.scan.map((p) => ({
+          z: r(p.z, 8),
+          velocity_km_s: r(p.velocity_km_s, 3),
+          score: r(p.score, 3),
+        })),
+      },
+    };
+  }
+  const s = reduction.shift;
+  if (!s || s.source === 'search') return null;
+  return {
+    source: s.source,
+    z: r(s.z, 8),
+    z_sigma: r(s.z_sigma, 8),
+    velocity_km_s: r(s.velocity_km_s, 4),
+    velocity_sigma_km_s: r(s.velocity_sigma_km_s, 4),
+    barycentric: s.barycentric,
   };
 }
