@@ -3,7 +3,7 @@
  * agreement, completeness, intensity ranks and chance.
  */
 import { binomialUpperTail, coveredLength } from './chance.js';
-import { bestMatching, type MeasuredPoint } from './match.js';
+import { bestMatching, type MeasuredPoint, touchedRefs } from './match.js';
 import { pairSigma, Q_STRONG, Q_WEAK, RANK_WEIGHT, WINDOW_SIGMAS } from './model.js';
 import { spearman } from './ranks.js';
 import type { Match, PreparedSpecies, RefLine, SpeciesEvidence } from './types.js';
@@ -60,6 +60,8 @@ export function evaluateSpecies(
   telluric: boolean,
 ): { evidence: SpeciesEvidence; prepared: PreparedSpecies } {
   const refCentres = Float64Array.from(refs, (r) => r.vacuum_nm);
+  const maxUnc = refs.reduce((m, r) => Math.max(m, r.unc_nm), 0);
+  const cols = touchedRefs(ctx.points, refCentres, maxUnc, ctx.fwhm_nm);
   let best: { llr: number; threshold: number; q: Float64Array; missCost: number; matches: Match[] } | null =
     null;
   for (const threshold of thresholdCandidates(refs)) {
@@ -67,7 +69,7 @@ export function evaluateSpecies(
     const { matches, gain } = bestMatching({
       lines: ctx.points,
       refs,
-      refCentres,
+      cols,
       q,
       fwhm_nm: ctx.fwhm_nm,
       background_per_nm: ctx.background_per_nm,
@@ -112,6 +114,13 @@ export function evaluateSpecies(
       confidence: 0,
       telluric,
     },
-    prepared: { species, refs, q: chosen.q, missCost: chosen.missCost, threshold: chosen.threshold },
+    prepared: {
+      species,
+      refs,
+      touched: cols,
+      q: chosen.q,
+      missCost: chosen.missCost,
+      threshold: chosen.threshold,
+    },
   };
 }

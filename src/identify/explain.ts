@@ -32,28 +32,21 @@ export function scoreSet(
   penalty: number,
 ): ScoredSet {
   if (set.length === 0) return { species: [], total: 0, matches: [] };
-  const refs: RefLine[] = [];
-  const qs: number[] = [];
+  // Only the lines some window reaches can match: merge those of each species (small lists).
+  const picked: { ref: RefLine; q: number }[] = [];
   let missCost = 0;
   for (const s of set) {
     const p = prepared.get(s);
     if (!p) continue;
     missCost += p.missCost;
-    p.refs.forEach((r, k) => {
-      refs.push(r);
-      qs.push(p.q[k] as number);
-    });
+    for (const k of p.touched) picked.push({ ref: p.refs[k] as RefLine, q: p.q[k] as number });
   }
-  const order = refs
-    .map((_, k) => k)
-    .sort((a, b) => (refs[a] as RefLine).vacuum_nm - (refs[b] as RefLine).vacuum_nm);
-  const sortedRefs = order.map((k) => refs[k] as RefLine);
-  const q = Float64Array.from(order, (k) => qs[k] as number);
+  picked.sort((a, b) => a.ref.vacuum_nm - b.ref.vacuum_nm);
   const { matches, gain } = bestMatching({
     lines: ctx.points,
-    refs: sortedRefs,
-    refCentres: Float64Array.from(sortedRefs, (r) => r.vacuum_nm),
-    q,
+    refs: picked.map((x) => x.ref),
+    cols: picked.map((_, k) => k),
+    q: Float64Array.from(picked, (x) => x.q),
     fwhm_nm: ctx.fwhm_nm,
     background_per_nm: ctx.background_per_nm,
   });
@@ -72,7 +65,13 @@ export interface MixtureResult {
 }
 
 export function selectMixture(
-  singles: readonly { species: string; score: number; false_alarm: number; matched: number }[],
+  singles: readonly {
+    species: string;
+    score: number;
+    false_alarm: number;
+    matched: number;
+    telluric: boolean;
+  }[],
   prepared: ReadonlyMap<string, PreparedSpecies>,
   ctx: EvidenceContext,
   candidateCount: number,
@@ -85,8 +84,11 @@ export function selectMixture(
     .map((s) => s.species);
   // A species that matches a single line which chance alone would often give is not added
   // to the answer: it would only "explain" a stray line. It still stands as a rival below.
+  // Telluric bands are exempt: every ground-based spectrum may show them.
   const mayJoin = new Set(
-    singles.filter((s) => s.matched >= 2 || s.false_alarm <= MAX_FALSE_ALARM).map((s) => s.species),
+    singles
+      .filter((s) => s.telluric || s.matched >= 2 || s.false_alarm <= MAX_FALSE_ALARM)
+      .map((s) => s.species),
   );
   const visited = new Map<string, ScoredSet>();
   const score = (set: readonly string[]): ScoredSet => {

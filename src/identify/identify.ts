@@ -37,7 +37,42 @@ export interface IdentifyOutcome {
 
 /** The identify stage: a known shift was removed by reduce; a searched one is found here. */
 export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcome {
-  const { warnings } = candidateSpecies(reduction.session, catalog);
+  const { species: pool, warnings } = candidateSpecies(reduction.session, catalog);
+  const note = (code: string, field: string, message: string, hint: string) =>
+    warnings.push({
+      file: reduction.session.file,
+      line: 1,
+      col: 1,
+      severity: 'warning',
+      code,
+      field,
+      message,
+      hint,
+    });
+  if (pool.length === 0) {
+    note(
+      'no-candidates',
+      'candidates',
+      'no candidate species are left to compare the lines with',
+      'name existing groups or species, or remove candidates: to use the defaults',
+    );
+  }
+  if (reduction.lines.length < 3) {
+    note(
+      'few-lines',
+      'lines',
+      `with ${reduction.lines.length} line${reduction.lines.length === 1 ? '' : 's'} the identification rests on little evidence`,
+      'measure more lines: the result is a weak one',
+    );
+  }
+  if (reduction.lines.some((l) => l.sigma_nm === 0)) {
+    note(
+      'zero-sigma',
+      'lines',
+      'a reading has zero uncertainty; its window uses the instrument resolution and a 0.005 nm floor',
+      'give the real uncertainty of the reading (sigma)',
+    );
+  }
   const request = reduction.session.shift;
   const core = (r: Reduction) => identifyAtRest(r, catalog);
   if (request.mode === 'redshift-search' || request.mode === 'velocity-search') {
@@ -66,7 +101,17 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
       return { identification: searched.identification, reduction: searched.reduction, warnings };
     }
   }
-  return { identification: core(reduction), reduction, warnings };
+  const identification = core(reduction);
+  if (identification.candidates.length === 0 && pool.length > 0) {
+    const [a, b] = identification.range_nm;
+    note(
+      'outside-catalog',
+      'lines',
+      `no candidate species has a reference line between ${a.toFixed(0)} and ${b.toFixed(0)} nm (rest, vacuum)`,
+      'check the unit (nm, angstrom, um) and the medium, or widen the candidates',
+    );
+  }
+  return { identification, reduction, warnings };
 }
 
 /** Identification of lines already in their rest frame. */
@@ -157,6 +202,7 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     confidence,
     raw_confidence: rawConfidence,
     status,
+    telluric: best.species.filter((sp) => isTelluric(catalog, sp)),
     unexplained,
     contenders: shown,
     discriminators,

@@ -16,25 +16,34 @@ export interface MeasuredPoint {
 export interface MatchInput {
   lines: readonly MeasuredPoint[];
   refs: readonly RefLine[];
-  refCentres: Float64Array;
+  /** Indices of the refs that some line's window reaches, ascending (see touchedRefs). */
+  cols: readonly number[];
+  /** Detection probability of each ref (indexed like refs). */
   q: Float64Array;
   fwhm_nm: number;
   background_per_nm: number;
 }
 
-export function bestMatching(input: MatchInput): { matches: Match[]; gain: number } {
-  const { lines, refs, refCentres, q, fwhm_nm, background_per_nm } = input;
-  const n = lines.length;
-  // The reference lines any window touches, in order.
+/** Indices of the reference lines inside any measured line's window, ascending, by binary search. */
+export function touchedRefs(
+  lines: readonly MeasuredPoint[],
+  refCentres: Float64Array,
+  maxUnc_nm: number,
+  fwhm_nm: number,
+): number[] {
   const touched = new Set<number>();
-  const maxUnc = refs.reduce((m, r) => Math.max(m, r.unc_nm), 0);
   for (const line of lines) {
-    const half = WINDOW_SIGMAS * pairSigma(line.sigma_nm, maxUnc, fwhm_nm);
+    const half = WINDOW_SIGMAS * pairSigma(line.sigma_nm, maxUnc_nm, fwhm_nm);
     const start = lowerBound(refCentres, line.vacuum_nm - half);
-    for (let k = start; k < refs.length && (refCentres[k] as number) <= line.vacuum_nm + half; k++)
+    for (let k = start; k < refCentres.length && (refCentres[k] as number) <= line.vacuum_nm + half; k++)
       touched.add(k);
   }
-  const cols = [...touched].sort((a, b) => a - b);
+  return [...touched].sort((a, b) => a - b);
+}
+
+export function bestMatching(input: MatchInput): { matches: Match[]; gain: number } {
+  const { lines, refs, cols, q, fwhm_nm, background_per_nm } = input;
+  const n = lines.length;
   const m = cols.length;
   if (m === 0 || n === 0) return { matches: [], gain: 0 };
 

@@ -31,6 +31,15 @@ export type CoreIdentify = (reduction: Reduction) => Identification;
 export function reductionAtShift(reduction: Reduction, z: number, z_sigma: number): Reduction {
   return {
     ...reduction,
+    // Identification reads the frame from here (range, resolution and telluric lines scale by 1 + z).
+    shift: {
+      source: 'search',
+      z,
+      z_sigma,
+      velocity_km_s: velocityFromRedshift(z),
+      velocity_sigma_km_s: 0,
+      barycentric: reduction.shift?.barycentric ?? null,
+    },
     lines: reduction.lines.map((l) => {
       const r = restFrame(l.vacuum_nm, l.sigma_nm, z, z_sigma);
       return { ...l, rest_vacuum_nm: r.rest_nm, rest_sigma_nm: r.rest_sigma_nm };

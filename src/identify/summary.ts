@@ -16,6 +16,9 @@ function list(names: readonly string[]): string {
 }
 
 export function describeExplanation(e: Explanation, lineCount: number, medium: Medium): string {
+  const source = e.species.filter((s) => !e.telluric.includes(s));
+  const sky = e.telluric.length ? `, plus telluric ${e.telluric.join(', ')} (Earth's atmosphere)` : '';
+  const names = (list_: readonly string[]) => (list_.length ? list(list_) : 'telluric lines only');
   const unexplained =
     e.unexplained.length === 0
       ? lineCount === 1
@@ -28,7 +31,7 @@ export function describeExplanation(e: Explanation, lineCount: number, medium: M
     case 'unexplained':
       return `No species in the catalog explains these lines better than chance; ${unexplained}.`;
     case 'identified':
-      return `${list(e.species)} (${percent(e.confidence)}); ${unexplained}.`;
+      return `${names(source)}${sky} (${percent(e.confidence)}); ${unexplained}.`;
     case 'ambiguous': {
       const rivals = e.contenders
         .slice(0, 3)
@@ -38,7 +41,7 @@ export function describeExplanation(e: Explanation, lineCount: number, medium: M
       const unit = medium === 'air' ? decide?.air_nm : decide?.vacuum_nm;
       const hint =
         decide && unit !== undefined ? ` — measure ${unit.toFixed(1)} nm (${decide.species}) to decide` : '';
-      return `Ambiguous between ${rivals}${hint}; best guess ${list(e.species)} (${percent(e.confidence)}); ${unexplained}.`;
+      return `Ambiguous between ${rivals}${hint}; best guess ${names(source)}${sky} (${percent(e.confidence)}); ${unexplained}.`;
     }
   }
 }

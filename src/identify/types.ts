@@ -14,6 +14,8 @@ export interface RefLine {
 export interface PreparedSpecies {
   species: string;
   refs: RefLine[];
+  /** Indices of the refs within reach of some measured line (the only ones matching can use). */
+  touched: number[];
   /** Detection probability of each ref under the profiled detection limit. */
   q: Float64Array;
   /** Σ log(1 − q): the completeness cost paid if nothing matched. */
@@ -87,6 +89,8 @@ export interface Explanation {
   /** Joint log-likelihood ratio of the set, less the per-species penalties (nats). */
   score: number;
   status: IdentificationStatus;
+  /** Species of the explanation that come from Earth's atmosphere (telluric bands). */
+  telluric: string[];
   /** Session line indices that no species explains. */
   unexplained: number[];
   contenders: ContendingExplanation[];

@@ -5,7 +5,7 @@ import type { Reduction } from '../reduce/types.js';
 import type { Session } from '../session/types.js';
 import { cautionsFor } from './cautions.js';
 import { type ChartCache, renderChart } from './charts/render.js';
-import { calibrationChart, residualChart, scoreChart, spectrumChart } from './charts/specs.js';
+import { calibrationChart, residualChart, scanChart, scoreChart, spectrumChart } from './charts/specs.js';
 import { display, fixed, percent, probability, speciesLabel } from './format.js';
 import { renderNotes } from './notes.js';
 import type { ResultJson } from './result.js';
@@ -154,9 +154,24 @@ export async function sessionPageModel(
     };
   }
 
-  const shift = reduction.shift
-    ? `z = ${reduction.shift.z.toPrecision(6)} ± ${reduction.shift.z_sigma.toPrecision(2)} (v = ${fixed(reduction.shift.velocity_km_s, 2)} ± ${fixed(reduction.shift.velocity_sigma_km_s, 2)} km/s), from the ${reduction.shift.source} given in the session${reduction.shift.barycentric ? `; barycentric correction ${fixed(reduction.shift.barycentric.correction_km_s, 3)} km/s (${reduction.shift.barycentric.method})` : ''}.`
-    : null;
+  const found = idn.shift;
+  const knownShift = reduction.shift && reduction.shift.source !== 'search' ? reduction.shift : null;
+  const bary = reduction.shift?.barycentric ?? null;
+  const baryText = bary
+    ? `; barycentric correction ${fixed(bary.correction_km_s, 3)} km/s (${bary.method})`
+    : '';
+  const shift = found
+    ? `Found by a search over the session's range: z = ${found.z.toFixed(5)} ± ${found.z_sigma.toPrecision(2)} (v = ${fixed(found.velocity_km_s, 1)} ± ${fixed(found.velocity_sigma_km_s, 1)} km/s) from ${found.lines_used} matched lines, scan step ${found.step_z.toPrecision(2)} in z${found.barycentric_velocity_km_s !== null ? `; barycentric v = ${fixed(found.barycentric_velocity_km_s, 1)} km/s` : ''}${baryText}.${found.warning ? ` Warning: ${found.warning}.` : ''}`
+    : knownShift
+      ? `z = ${knownShift.z.toPrecision(6)} ± ${knownShift.z_sigma.toPrecision(2)} (v = ${fixed(knownShift.velocity_km_s, 2)} ± ${fixed(knownShift.velocity_sigma_km_s, 2)} km/s), from the ${knownShift.source} given in the session${baryText}.`
+      : null;
+  const scanTitle = found
+    ? `Shift scan: best explanation's score at each shift tried (z ${found.scan[0]?.z.toFixed(3)}–${found.scan.at(-1)?.z.toFixed(3)}); elsewhere the lines line up no better than chance.`
+    : '';
+  const scan =
+    found && found.scan.length > 1
+      ? await renderChart(scanChart(scanTitle, found.scan, found.z), cache)
+      : null;
 
   const usedSources = new Set<string>();
   for (const sp of idn.explanation.species)
@@ -196,8 +211,18 @@ export async function sessionPageModel(
       kind: l.kind,
     })),
     calibration,
-    charts: { spectrum: spectrum.svg, residuals: residuals?.svg ?? null, scores: scores?.svg ?? null },
-    captions: { spectrum: spectrumTitle, residuals: residualTitle, scores: scoresTitle },
+    charts: {
+      spectrum: spectrum.svg,
+      residuals: residuals?.svg ?? null,
+      scores: scores?.svg ?? null,
+      scan: scan?.svg ?? null,
+    },
+    scanRows: found
+      ? found.scan
+          .filter((p) => p.score > 0)
+          .map((p) => ({ z: p.z.toFixed(5), v: fixed(p.velocity_km_s, 0), score: fixed(p.score, 2) }))
+      : [],
+    captions: { spectrum: spectrumTitle, residuals: residualTitle, scores: scoresTitle, scan: scanTitle },
     assignments: reduction.lines.map((l) => {
       const a = bySessionIndex.get(l.index);
       const asg = a?.assignment;

@@ -278,3 +278,34 @@ export function overviewChart(title: string, rows: { session: string; species: s
     },
   } as TopLevelSpec;
 }
+
+/** Shift scan: the best explanation's score against z, the chosen shift marked. */
+export function scanChart(
+  title: string,
+  points: { z: number; score: number }[],
+  best_z: number,
+): TopLevelSpec {
+  return {
+    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
+    description: title,
+    config: CONFIG,
+    width: 640,
+    height: 160,
+    layer: [
+      {
+        data: { values: points.map((p) => ({ z: p.z, score: Math.max(0, p.score), base: 0 })) },
+        mark: { type: 'rule', color: '#0072B2', strokeWidth: 2 },
+        encoding: {
+          x: { field: 'z', type: 'quantitative', title: 'Redshift z', scale: { zero: false } },
+          y: { field: 'base', type: 'quantitative', title: 'Score (nats)' },
+          y2: { field: 'score' },
+        },
+      },
+      {
+        data: { values: [{ z: best_z }] },
+        mark: { type: 'rule', color: '#D55E00', strokeDash: [4, 3] },
+        encoding: { x: { field: 'z', type: 'quantitative' } },
+      },
+    ],
+  } as TopLevelSpec;
+}
