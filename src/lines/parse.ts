@@ -226,6 +226,10 @@ function parseGroups(
   for (const [id, g] of Object.entries(data.groups ?? {})) {
     const list = Array.isArray(g.species) ? g.species.map(String) : [];
     const known = list.filter((s) => species.has(s));
+    // A group naming a species the catalog lacks is a slip in the data: report it, never drop it silently.
+    for (const s of list)
+      if (!species.has(s))
+        problem(file.name, 1, 1, `groups.${id}`, `group "${id}" names "${s}", which no line list holds`);
     groups.set(id, {
       id,
       title: String(g.title ?? id),
