@@ -1,0 +1,515 @@
+/**
+ * A NIST ASD "lines" form export (tab-delimited or CSV) → rows in the catalog's TSV format
+ * (src/lines/parse.ts). Pure: the export's text comes in; the TSV text, the rows and the
+ * problems (as Diagnostic values with file:line:col) go out. docs/catalog.md describes the rules.
+ */
+import { NM_PER_ANGSTROM, NM_PER_MICROMETRE } from '../constants.js';
+import type { Diagnostic, Outcome } from '../diagnostics.js';
+import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
+import { CATALOG_COLUMNS } from './parse.js';
+
+export type ExportMedium = 'air' | 'vacuum';
+
+export interface NistImportOptions {
+  /** Keep only this spectrum ("Fe I"); null: every spectrum, named from element + sp_num. */
+  species: string | null;
+  /** The medium of wavelength columns whose names do not say (`obs_wl(nm)`); null: must say. */
+  medium: ExportMedium | null;
+  sourceKey: string;
+}
+
+export interface ImportedRow {
+  species: string;
+  vacuum_nm: number;
+  /** null below 200 nm (written `-`). */
+  air_nm: number | null;
+  unc_nm: number;
+  intensity: number;
+  flags: string[];
+  /** Which wavelength was used: observed or Ritz (computed from the energy levels). */
+  basis: 'observed' | 'ritz';
+  /** Line of the export the row came from. */
+  line: number;
+  /** Decimals (in nm) the row is written with: the source's precision, at least 4. */
+  decimals: number;
+}
+
+export interface NistImport {
+  rows: ImportedRow[];
+  /** The rows in the catalog's TSV format, with a header comment saying where they came from. */
+  tsv: string;
+}
+
+/** Intensity descriptors we carry into catalog flags; the others are dropped (docs/catalog.md). */
+const FLAG_FOR_DESCRIPTOR: Readonly<Record<string, string>> = {
+  P: 'persistent',
+  bl: 'blend',
+  f: 'forbidden',
+  b: 'band-head',
+};
+
+/** ASD `Type` column: anything but an electric-dipole (E1, or blank) transition is forbidden. */
+const ALLOWED_TYPES = new Set(['', 'E1']);
+
+/** Descriptors of ASD intensities, longest first so "bl" and "hfs" win over "b" and "h". */
+const DESCRIPTORS = ['hfs', 'bl', ...'*:-?abBcdDEfgGHhijlmpPqrstuwx'];
+
+const ROMAN: readonly [number, string][] = [
+  [1000, 'M'],
+  [900, 'CM'],
+  [500, 'D'],
+  [400, 'CD'],
+  [100, 'C'],
+  [90, 'XC'],
+  [50, 'L'],
+  [40, 'XL'],
+  [10, 'X'],
+  [9, 'IX'],
+  [5, 'V'],
+  [4, 'IV'],
+  [1, 'I'],
+];
+
+/** Spectrum number → spectroscopic notation: 1 → I (neutral), 2 → II (singly ionised). */
+export function romanNumeral(n: number): string {
+  let rest = n;
+  let out = '';
+  for (const [value, letters] of ROMAN) {
+    while (rest >= value) {
+      out += letters;
+      rest -= value;
+    }
+  }
+  return out;
+}
+
+/** A cell as ASD writes it: `="656.279"` (kept text for spreadsheets), `"1000P"`, or bare. */
+export function cleanCell(raw: string): string {
+  let s = raw.trim();
+  // Repeat: a CSV cell may wrap the spreadsheet form once more, "=""656.279""".
+  for (let pass = 0; pass < 3; pass++) {
+    const before = s;
+    if (s.startsWith('=')) s = s.slice(1).trim();
+    if (s.length >= 2 && s.startsWith('"') && s.endsWith('"')) s = s.slice(1, -1).replace(/""/g, '"').trim();
+    if (s === before) break;
+  }
+  return s;
+}
+
+/** Split one CSV record, honouring double quotes (a quoted cell may hold commas). */
+function splitCsv(text: string): { cells: string[]; starts: number[] } {
+  const cells: string[] = [];
+  const starts: number[] = [];
+  let cell = '';
+  let start = 0;
+  let quoted = false;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text[i] as string;
+    if (quoted) {
+      if (ch === '"' && text[i + 1] === '"') {
+        cell += '""';
+        i++;
+      } else if (ch === '"') {
+        quoted = false;
+        cell += ch;
+      } else cell += ch;
+    } else if (ch === '"') {
+      quoted = true;
+      cell += ch;
+    } else if (ch === ',') {
+      cells.push(cell);
+      starts.push(start);
+      cell = '';
+      start = i + 1;
+    } else cell += ch;
+  }
+  cells.push(cell);
+  starts.push(start);
+  return { cells, starts };
+}
+
+function splitTabs(text: string): { cells: string[]; starts: number[] } {
+  const cells = text.split('\t');
+  const starts: number[] = [];
+  let at = 0;
+  for (const c of cells) {
+    starts.push(at);
+    at += c.length + 1;
+  }
+  return { cells, starts };
+}
+
+interface WavelengthColumn {
+  index: number;
+  medium: ExportMedium | null;
+  nm_per_unit: number;
+  /** Column of its uncertainty, or -1. */
+  unc: number;
+}
+
+interface Columns {
+  observed: WavelengthColumn | null;
+  ritz: WavelengthColumn | null;
+  intensity: number;
+  element: number;
+  spNum: number;
+  type: number;
+}
+
+const UNIT_NM: Readonly<Record<string, number>> = {
+  nm: 1,
+  a: NM_PER_ANGSTROM,
+  å: NM_PER_ANGSTROM,
+  angstrom: NM_PER_ANGSTROM,
+  um: NM_PER_MICROMETRE,
+  µm: NM_PER_MICROMETRE,
+  μm: NM_PER_MICROMETRE,
+  micron: NM_PER_MICROMETRE,
+};
+
+/** `obs_wl_air(nm)`, `ritz_wl_vac(A)`, `obs_wl(nm)` → which wavelength, medium and unit. */
+function wavelengthHeader(
+  name: string,
+): { kind: 'obs' | 'ritz'; medium: ExportMedium | null; unit: string } | null {
+  const m = /^(obs|ritz)_wl(?:_(air|vac))?\((.+)\)$/i.exec(name);
+  if (!m) return null;
+  const medium = m[2] === undefined ? null : m[2].toLowerCase() === 'air' ? 'air' : 'vacuum';
+  return {
+    kind: (m[1] as string).toLowerCase() as 'obs' | 'ritz',
+    medium,
+    unit: (m[3] as string).toLowerCase(),
+  };
+}
+
+function readHeader(names: readonly string[]): Columns | null {
+  const find = (n: string) => names.findIndex((x) => x.toLowerCase() === n);
+  let observed: WavelengthColumn | null = null;
+  let ritz: WavelengthColumn | null = null;
+  names.forEach((name, index) => {
+    const h = wavelengthHeader(name);
+    if (!h) return;
+    const column: WavelengthColumn = {
+      index,
+      medium: h.medium,
+      nm_per_unit: UNIT_NM[h.unit] ?? Number.NaN,
+      unc: find(h.kind === 'obs' ? 'unc_obs_wl' : 'unc_ritz_wl'),
+    };
+    if (h.kind === 'obs') observed ??= column;
+    else ritz ??= column;
+  });
+  if (observed === null && ritz === null) return null;
+  return {
+    observed,
+    ritz,
+    intensity: find('intens'),
+    element: find('element'),
+    spNum: find('sp_num'),
+    type: find('type'),
+  };
+}
+
+/** Number of decimals written, so a computed medium keeps the source's precision. */
+function decimals(text: string): number {
+  const dot = text.indexOf('.');
+  return dot < 0 ? 0 : text.length - dot - 1;
+}
+
+/** A plain positive decimal (never exponent notation, which the catalog parser refuses). */
+function decimal(x: number, digits: number): string {
+  return x.toFixed(Math.min(Math.max(digits, 0), 10));
+}
+
+export interface ParsedIntensity {
+  value: number | null;
+  flags: string[];
+  dropped: string[];
+}
+
+/**
+ * "1000P" → 1000 + persistent; "500bl" → blend; "(30)" → 30; "70*" → 70 (shared intensity,
+ * dropped); "bl" alone → no value. Descriptors we cannot carry into a catalog flag are returned
+ * in `dropped` so the caller can say so.
+ */
+export function parseIntensity(text: string): ParsedIntensity {
+  const cell = text.replace(/[()[\]]/g, '').trim();
+  const m = /^(\d+(?:\.\d+)?)?(.*)$/.exec(cell);
+  const number = m?.[1];
+  let rest = (m?.[2] ?? '').replace(/\s+/g, '');
+  const flags: string[] = [];
+  const dropped: string[] = [];
+  while (rest.length > 0) {
+    const d = DESCRIPTORS.find((x) => rest.startsWith(x));
+    const token = d ?? rest.slice(0, 1);
+    rest = rest.slice(token.length);
+    const flag = FLAG_FOR_DESCRIPTOR[token];
+    if (flag) {
+      if (!flags.includes(flag)) flags.push(flag);
+    } else if (!dropped.includes(token)) dropped.push(token);
+  }
+  const value = number === undefined ? null : Number(number);
+  return { value: value !== null && value > 0 ? value : null, flags, dropped };
+}
+
+function positive(text: string): number | null {
+  if (!/^\d+(\.\d*)?$|^\.\d+$/.test(text)) return null;
+  const v = Number(text);
+  return v > 0 ? v : null;
+}
+
+export function convertNistExport(
+  text: string,
+  file: string,
+  options: NistImportOptions,
+): Outcome<NistImport> {
+  const diagnostics: Diagnostic[] = [];
+  const warnings: Diagnostic[] = [];
+  const say = (to: Diagnostic[], line: number, col: number, field: string, message: string, hint?: string) =>
+    to.push({
+      file,
+      line,
+      col,
+      severity: to === diagnostics ? 'error' : 'warning',
+      code: 'nist-import',
+      field,
+      message,
+      ...(hint ? { hint } : {}),
+    });
+
+  const lines = text.replace(/^\uFEFF/, '').split(/\r?\n/);
+  const firstLine = lines.find((l) => l.trim() !== '') ?? '';
+  const split = firstLine.includes('\t') ? splitTabs : splitCsv;
+  let columns: Columns | null = null;
+  const rows: ImportedRow[] = [];
+  const droppedSeen = new Map<string, number>();
+  const spectraSeen = new Set<string>();
+  let headerSeen = false;
+
+  lines.forEach((raw, i) => {
+    const lineNo = i + 1;
+    if (raw.trim() === '') return;
+    const { cells: rawCells, starts } = split(raw);
+    const cells = rawCells.map(cleanCell);
+    const col = (k: number) => (starts[k] ?? 0) + 1;
+    const header = readHeader(cells);
+    // ASD repeats its header row where a table section starts (e.g. where the listing
+    // switches from vacuum to air wavelengths at 200 nm): every header row resets the columns.
+    if (header) {
+      headerSeen = true;
+      columns = header;
+      for (const w of [header.observed, header.ritz]) {
+        if (!w) continue;
+        if (Number.isNaN(w.nm_per_unit))
+          say(
+            diagnostics,
+            lineNo,
+            col(w.index),
+            cells[w.index] ?? '',
+            'unknown wavelength unit',
+            'export in nm, Å or µm',
+          );
+        if (w.medium === null && options.medium === null)
+          say(
+            diagnostics,
+            lineNo,
+            col(w.index),
+            cells[w.index] ?? '',
+            'the column does not say whether its wavelengths are in air or vacuum',
+            'give --medium air or --medium vacuum',
+          );
+        if (w.medium !== null && options.medium !== null && w.medium !== options.medium)
+          say(
+            diagnostics,
+            lineNo,
+            col(w.index),
+            cells[w.index] ?? '',
+            `the column holds ${w.medium} wavelengths but --medium says ${options.medium}`,
+            'leave --medium out; the column names decide',
+          );
+      }
+      return;
+    }
+    const c = columns as Columns | null;
+    if (c === null) return; // text above the first header (titles, notes)
+
+    let species = options.species;
+    if (c.element >= 0 && c.spNum >= 0) {
+      const element = cells[c.element] ?? '';
+      const sp = Number(cells[c.spNum]);
+      if (element === '' || !Number.isInteger(sp) || sp < 1) {
+        say(warnings, lineNo, col(c.element), 'element', 'row without a usable element/sp_num; skipped');
+        return;
+      }
+      const own = `${element} ${romanNumeral(sp)}`;
+      spectraSeen.add(own);
+      if (species !== null && own !== species) return;
+      species = own;
+    }
+    if (species === null) {
+      say(
+        diagnostics,
+        lineNo,
+        1,
+        '--species',
+        'the export has no element/sp_num columns',
+        'give --species, e.g. "Fe I"',
+      );
+      columns = null;
+      return;
+    }
+
+    const pick = (w: WavelengthColumn | null) => {
+      if (!w) return null;
+      // Brackets and a trailing "?" or "+" mark questionable or shifted values; the number stands.
+      const t = (cells[w.index] ?? '').replace(/^[[(]|[\])]$|[+?]$/g, '');
+      const v = positive(t);
+      return v === null ? null : { w, text: t, value: v };
+    };
+    // Observed before Ritz: the observed wavelength is what a lamp shows, with the stated
+    // measurement uncertainty; the Ritz value fills in lines only computed from level energies.
+    const obs = pick(c.observed);
+    const chosen = obs ?? pick(c.ritz);
+    if (!chosen) {
+      say(warnings, lineNo, 1, 'wavelength', 'row without an observed or Ritz wavelength; skipped');
+      return;
+    }
+    const medium = chosen.w.medium ?? (options.medium as ExportMedium);
+    const value_nm = chosen.value * chosen.w.nm_per_unit;
+    const places = Math.max(0, decimals(chosen.text) + Math.round(Math.log10(chosen.w.nm_per_unit)) * -1);
+    const vacuum_nm = medium === 'air' ? airToVacuum(value_nm) : value_nm;
+    const air_nm = vacuum_nm < 200 ? null : medium === 'air' ? value_nm : vacuumToAir(value_nm);
+
+    const uncText = chosen.w.unc >= 0 ? (cells[chosen.w.unc] ?? '') : '';
+    const unc = positive(uncText);
+    // No stated uncertainty: one unit of the last decimal written, the least it can be.
+    const unc_nm = unc !== null ? unc * chosen.w.nm_per_unit : 10 ** -places;
+
+    const intensityText = c.intensity >= 0 ? (cells[c.intensity] ?? '') : '';
+    const parsed = parseIntensity(intensityText);
+    let intensity = parsed.value;
+    if (intensity === null) {
+      say(
+        warnings,
+        lineNo,
+        c.intensity >= 0 ? col(c.intensity) : 1,
+        'intens',
+        `no usable intensity ("${intensityText}"); written as 1`,
+        'intensities only rank lines within a species; 1 puts it last',
+      );
+      intensity = 1;
+    }
+    const flags = [...parsed.flags];
+    const type = c.type >= 0 ? (cells[c.type] ?? '') : '';
+    if (!ALLOWED_TYPES.has(type) && !flags.includes('forbidden')) flags.push('forbidden');
+    for (const d of parsed.dropped) droppedSeen.set(d, (droppedSeen.get(d) ?? 0) + 1);
+
+    rows.push({
+      species,
+      vacuum_nm,
+      air_nm,
+      unc_nm,
+      intensity,
+      flags,
+      basis: obs ? 'observed' : 'ritz',
+      line: lineNo,
+      decimals: Math.max(places, 4),
+    });
+  });
+
+  if (!headerSeen)
+    say(
+      diagnostics,
+      1,
+      1,
+      'header',
+      'no header row with obs_wl_… or ritz_wl_… columns found',
+      'export from the ASD lines form as tab-delimited or CSV text',
+    );
+  if (options.species !== null && spectraSeen.size > 0 && !spectraSeen.has(options.species))
+    say(
+      diagnostics,
+      1,
+      1,
+      '--species',
+      `the export has no lines of "${options.species}"`,
+      `it has ${[...spectraSeen].sort().join(', ')}`,
+    );
+  if (diagnostics.length > 0) return { ok: false, diagnostics };
+  if (rows.length === 0) {
+    say(diagnostics, 1, 1, 'rows', 'the export holds no usable lines');
+    return { ok: false, diagnostics };
+  }
+
+  const merged = mergeDuplicates(rows, (r, kept) =>
+    say(
+      warnings,
+      r.line,
+      1,
+      'wavelength',
+      `same ${r.species} wavelength as line ${kept.line} (a multiply classified line); kept once`,
+    ),
+  );
+  for (const [d, n] of [...droppedSeen].sort()) {
+    say(
+      warnings,
+      1,
+      1,
+      'intens',
+      `intensity descriptor "${d}" on ${n} row${n === 1 ? '' : 's'} has no catalog flag; dropped`,
+      'see docs/catalog.md',
+    );
+  }
+  return { ok: true, value: { rows: merged, tsv: writeTsv(merged, file, options.sourceKey) }, warnings };
+}
+
+/** Same species and wavelength more than once (ASD lists a line once per classification). */
+function mergeDuplicates(
+  rows: ImportedRow[],
+  warn: (row: ImportedRow, kept: ImportedRow) => void,
+): ImportedRow[] {
+  const sorted = [...rows].sort((a, b) => a.species.localeCompare(b.species) || a.vacuum_nm - b.vacuum_nm);
+  const out: ImportedRow[] = [];
+  for (const r of sorted) {
+    const last = out[out.length - 1];
+    const digits = Math.min(r.decimals, last?.decimals ?? r.decimals);
+    if (
+      last &&
+      last.species === r.species &&
+      decimal(last.vacuum_nm, digits) === decimal(r.vacuum_nm, digits)
+    ) {
+      warn(r, last);
+      last.intensity = Math.max(last.intensity, r.intensity);
+      for (const f of r.flags) if (!last.flags.includes(f)) last.flags.push(f);
+      continue;
+    }
+    out.push({ ...r, flags: [...r.flags] });
+  }
+  return out;
+}
+
+function writeTsv(rows: readonly ImportedRow[], file: string, sourceKey: string): string {
+  const name = file.split(/[\\/]/).pop() ?? file;
+  const ritz = rows.filter((r) => r.basis === 'ritz').length;
+  const out = [
+    `# Converted by lineledger import-nist from ${name} (a NIST ASD lines-form export): ${rows.length} lines,`,
+    `# ${rows.length - ritz} observed and ${ritz} Ritz wavelengths (observed preferred). The medium not in the export is`,
+    '# COMPUTED with the IAU formula (Morton 2000, ApJS 130, 403); air_nm is "-" below 200 nm.',
+    CATALOG_COLUMNS.join('\t'),
+  ];
+  for (const r of rows) {
+    const digits = r.decimals;
+    const unc = decimal(r.unc_nm, Math.max(digits, 6)).replace(/0+$/, '').replace(/\.$/, '');
+    out.push(
+      [
+        r.species,
+        decimal(r.vacuum_nm, digits),
+        r.air_nm === null ? '-' : decimal(r.air_nm, digits),
+        Number(unc) > 0 ? unc : '0',
+        String(r.intensity),
+        r.flags.length > 0 ? r.flags.join(',') : '-',
+        sourceKey,
+        'read',
+      ].join('\t'),
+    );
+  }
+  return `${out.join('\n')}\n`;
+}
