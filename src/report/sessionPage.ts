@@ -218,8 +218,9 @@ export async function sessionPageModel(
       scan: scan?.svg ?? null,
     },
     scanRows: found
-      ? found.scan
-          .filter((p) => p.score > 0)
+      ? [...found.scan]
+          .sort((a, b) => b.score - a.score || a.z - b.z)
+          .slice(0, 8)
           .map((p) => ({ z: p.z.toFixed(5), v: fixed(p.velocity_km_s, 0), score: fixed(p.score, 2) }))
       : [],
     captions: { spectrum: spectrumTitle, residuals: residualTitle, scores: scoresTitle, scan: scanTitle },
