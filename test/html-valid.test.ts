@@ -21,7 +21,9 @@ const validator = new HtmlValidate({
 describe('valid HTML', () => {
   it.each(pages)('%s', async (page) => {
     const report = await validator.validateString(readFileSync(join(SITE, page), 'utf8'), page);
-    const messages = report.results.flatMap((r) => r.messages.map((m) => `${m.line}:${m.column} ${m.ruleId}: ${m.message}`));
+    const messages = report.results.flatMap((r) =>
+      r.messages.map((m) => `${m.line}:${m.column} ${m.ruleId}: ${m.message}`),
+    );
     expect(messages).toEqual([]);
   });
 });

@@ -1,24 +1,30 @@
 /**
  * The read stage's pure core: file bytes → Session or diagnostics. Decoding, size limits,
- * YAML, schema, then the semantic checks; every problem of the file comes back together.
+ * YAML, structure limits, schema, then the semantic checks; every problem of the file
+ * comes back together.
  */
-import type { Diagnostic, Outcome } from '../diagnostics.js';
-import { normalizeSession } from './normalize.js';
+import type { Diagnostic, Outcome, SourcePosition } from '../diagnostics.js';
+import { isReservedId, SESSION_LIMITS, type SessionLimits } from './limits.js';
+import { normalizeSession, sessionIdFromFileName } from './normalize.js';
 import type { InstrumentSpec, Session } from './types.js';
 import { validateDocument } from './validate.js';
-import { parseYamlSource } from './yamlSource.js';
+import { parseFieldName, parseYamlSource, type YamlSource } from './yamlSource.js';
 
-export interface ReadLimits {
-  maxBytes: number;
-  maxAliasCount: number;
-}
+export type ReadLimits = SessionLimits;
 
-export const DEFAULT_READ_LIMITS: ReadLimits = { maxBytes: 2 * 1024 * 1024, maxAliasCount: 50 };
+export const DEFAULT_READ_LIMITS: ReadLimits = SESSION_LIMITS;
 
 export interface ReadOptions {
-  limits?: ReadLimits;
+  /** Any limit left out keeps its default (src/session/limits.ts). */
+  limits?: Partial<ReadLimits>;
   /** The project's default instrument (lineledger.yaml), used where the session gives none. */
   instrumentDefaults?: InstrumentSpec | null;
+}
+
+/** The default id for a file name: safe as a folder name on every system (`con` → `con-session`). */
+export function safeIdFromFileName(fileName: string): string {
+  const id = sessionIdFromFileName(fileName);
+  return isReservedId(id) ? `${id}-session` : id;
 }
 
 function fileProblem(
@@ -26,10 +32,126 @@ function fileProblem(
   code: string,
   message: string,
   hint: string,
-  line = 1,
-  col = 1,
+  position: SourcePosition = { line: 1, col: 1 },
 ): Diagnostic {
-  return { file, line, col, severity: 'error', code, field: '', message, hint };
+  return { file, ...position, severity: 'error', code, field: '', message, hint };
+}
+
+/** Line and column (1-based, in characters) of a character offset. */
+function positionInText(text: string, offset: number): SourcePosition {
+  const before = text.slice(0, offset).split('\n');
+  return { line: before.length, col: (before.at(-1)?.length ?? 0) + 1 };
+}
+
+/** Byte offset of the first byte that does not start or continue a valid UTF-8 sequence. */
+function firstInvalidUtf8(bytes: Uint8Array): number {
+  let i = 0;
+  while (i < bytes.length) {
+    const b = bytes[i]!;
+    // Sequence length and the allowed range of the second byte (no overlongs, no surrogates).
+    let n = 0;
+    let lo = 0x80;
+    let hi = 0xbf;
+    if (b < 0x80) n = 1;
+    else if (b >= 0xc2 && b <= 0xdf) n = 2;
+    else if (b >= 0xe0 && b <= 0xef) {
+      n = 3;
+      if (b === 0xe0) lo = 0xa0;
+      if (b === 0xed) hi = 0x9f;
+    } else if (b >= 0xf0 && b <= 0xf4) {
+      n = 4;
+      if (b === 0xf0) lo = 0x90;
+      if (b === 0xf4) hi = 0x8f;
+    } else return i;
+    for (let k = 1; k < n; k++) {
+      const c = bytes[i + k];
+      const [min, max] = k === 1 ? [lo, hi] : [0x80, 0xbf];
+      if (c === undefined || c < min || c > max) return i;
+    }
+    i += n;
+  }
+  return bytes.length;
+}
+
+function decode(bytes: Uint8Array, file: string): { text: string } | { diagnostic: Diagnostic } {
+  if ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff)) {
+    return {
+      diagnostic: fileProblem(
+        file,
+        'not-utf8',
+        'the file is saved as UTF-16 text; session files must be UTF-8',
+        'save it again with the encoding set to UTF-8',
+      ),
+    };
+  }
+  try {
+    return { text: new TextDecoder('utf-8', { fatal: true }).decode(bytes) };
+  } catch {
+    const bad = firstInvalidUtf8(bytes);
+    const lossy = new TextDecoder('utf-8').decode(bytes.subarray(0, bad));
+    return {
+      diagnostic: fileProblem(
+        file,
+        'not-utf8',
+        `the file is not valid UTF-8 text: byte 0x${bytes[bad]?.toString(16).padStart(2, '0') ?? '??'} here is not UTF-8`,
+        'save it as UTF-8 (it was probably saved in a legacy encoding such as Latin-1 or Windows-1252)',
+        positionInText(lossy.replace(/^\ufeff/, ''), lossy.replace(/^\ufeff/, '').length),
+      ),
+    };
+  }
+}
+
+function valueAt(data: unknown, field: string): unknown {
+  let node = data;
+  for (const part of parseFieldName(field)) {
+    if (node === null || typeof node !== 'object') return undefined;
+    node = (node as Record<string | number, unknown>)[part];
+  }
+  return node;
+}
+
+/**
+ * Schema messages made plain where the validator's own words are terse: an empty value
+ * (what a scaffold leaves for the user), and a text or list over its length limit.
+ */
+function clarify(d: Diagnostic, source: YamlSource): Diagnostic {
+  if (d.code !== 'invalid-value' || !d.field) return d;
+  const value = valueAt(source.data, d.field);
+  if (value === null)
+    return {
+      ...d,
+      code: 'empty-value',
+      message: 'has no value',
+      hint: 'write a value after the colon (the comment on the line says what goes there), or delete the line if it is optional',
+    };
+  const chars = /^must NOT have more than (\d+) characters$/.exec(d.message);
+  if (chars && typeof value === 'string')
+    return {
+      ...d,
+      code: 'too-long',
+      message: `is ${[...value].length} characters long; the limit is ${chars[1]}`,
+      hint: d.field === 'notes' ? 'shorten the notes' : 'shorten it; longer text belongs in notes:',
+    };
+  const items = /^must NOT have more than (\d+) items$/.exec(d.message);
+  if (items && Array.isArray(value))
+    return {
+      ...d,
+      code: 'too-many-items',
+      message: `has ${value.length} entries; the limit is ${items[1]}`,
+      hint: 'remove entries, or split the session',
+    };
+  return d;
+}
+
+/** One message per field and kind: an empty word-list value fails both its type and its list. */
+function unique(diagnostics: Diagnostic[]): Diagnostic[] {
+  const seen = new Set<string>();
+  return diagnostics.filter((d) => {
+    const key = `${d.line}:${d.col}:${d.code}:${d.field}:${d.message}`;
+    if (seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
 }
 
 export function readSessionText(
@@ -37,7 +159,7 @@ export function readSessionText(
   file: string,
   options: ReadOptions = {},
 ): Outcome<Session> {
-  const limits = options.limits ?? DEFAULT_READ_LIMITS;
+  const limits: ReadLimits = { ...SESSION_LIMITS, ...options.limits };
   const size = typeof bytes === 'string' ? Buffer.byteLength(bytes) : bytes.byteLength;
   if (size > limits.maxBytes) {
     return {
@@ -46,8 +168,8 @@ export function readSessionText(
         fileProblem(
           file,
           'file-too-large',
-          `the file is ${size} bytes; the limit is ${limits.maxBytes}`,
-          'split the session or trim it',
+          `the file is ${size} bytes; the limit is ${limits.maxBytes} bytes`,
+          'a session is a few kilobytes: split it into several sessions, or move long notes elsewhere',
         ),
       ],
     };
@@ -56,19 +178,13 @@ export function readSessionText(
   if (typeof bytes === 'string') {
     text = bytes;
   } else {
-    try {
-      text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-    } catch {
-      return {
-        ok: false,
-        diagnostics: [fileProblem(file, 'not-utf8', 'the file is not valid UTF-8 text', 'save it as UTF-8')],
-      };
-    }
+    const decoded = decode(bytes, file);
+    if ('diagnostic' in decoded) return { ok: false, diagnostics: [decoded.diagnostic] };
+    text = decoded.text;
   }
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1); // a byte-order mark is harmless: drop it
   const nul = text.indexOf('\u0000');
   if (nul >= 0) {
-    const before = text.slice(0, nul).split('\n');
     return {
       ok: false,
       diagnostics: [
@@ -77,24 +193,49 @@ export function readSessionText(
           'binary-content',
           'the file holds a NUL byte: it is not a text file',
           'check that this is a session YAML file',
-          before.length,
-          (before.at(-1)?.length ?? 0) + 1,
+          positionInText(text, nul),
         ),
       ],
     };
   }
 
-  const parsed = parseYamlSource(text, file, { maxAliasCount: limits.maxAliasCount });
+  const parsed = parseYamlSource(text, file, limits);
   if (!parsed.source) return { ok: false, diagnostics: parsed.diagnostics };
-  const validated = validateDocument(parsed.source, file);
-  if (!validated.document) return { ok: false, diagnostics: validated.diagnostics };
-  const normalized = normalizeSession(
-    validated.document,
-    parsed.source,
-    file,
-    bytes,
-    options.instrumentDefaults ?? null,
-  );
+  const source = parsed.source;
+  if (source.data === null || source.data === undefined)
+    return {
+      ok: false,
+      diagnostics: [
+        fileProblem(
+          file,
+          'empty-file',
+          'the file holds no session (it is empty or only comments)',
+          'start with `lineledger: 1` and a lines: list, or create a template with `lineledger new FILE`',
+        ),
+      ],
+    };
+  const validated = validateDocument(source, file);
+  if (!validated.document)
+    return { ok: false, diagnostics: unique(validated.diagnostics.map((d) => clarify(d, source))) };
+  const document = validated.document;
+  if (document.id !== undefined && isReservedId(document.id)) {
+    return {
+      ok: false,
+      diagnostics: [
+        {
+          file,
+          ...source.positionOf(['id']),
+          severity: 'error',
+          code: 'reserved-id',
+          field: 'id',
+          message: `"${document.id}" is a device name on Windows and cannot be a folder name there`,
+          hint: `choose another id, such as ${document.id}-1`,
+        },
+      ],
+    };
+  }
+  const named = document.id === undefined ? { ...document, id: safeIdFromFileName(file) } : document;
+  const normalized = normalizeSession(named, source, file, bytes, options.instrumentDefaults ?? null);
   if (!normalized.session) return { ok: false, diagnostics: normalized.diagnostics };
   return { ok: true, value: normalized.session, warnings: normalized.diagnostics };
 }

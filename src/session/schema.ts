@@ -5,6 +5,7 @@
  * Schema objects: there is no second translation step that could drift.
  */
 import { type Static, type TSchema, Type } from '@sinclair/typebox';
+import { SESSION_LIMITS } from './limits.js';
 
 const Strict = { additionalProperties: false } as const;
 
@@ -239,7 +240,11 @@ export const SessionSchema = Type.Object(
     candidates: Type.Optional(Candidates),
     shift: Type.Optional(Shift),
     measurement: Type.Optional(Measurement),
-    lines: Type.Array(Line, { minItems: 1, maxItems: 5000, description: 'The measured lines' }),
+    lines: Type.Array(Line, {
+      minItems: 1,
+      maxItems: SESSION_LIMITS.maxLines,
+      description: 'The measured lines',
+    }),
     notes: Type.Optional(Type.String({ maxLength: 100_000, description: 'Markdown' })),
   },
   {

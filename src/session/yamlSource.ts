@@ -3,8 +3,20 @@
  * We use the `yaml` package because it keeps a concrete syntax tree with source ranges,
  * reports every syntax error with its offset, and caps alias expansion.
  */
-import { isMap, isPair, isScalar, isSeq, LineCounter, type Node, parseDocument } from 'yaml';
+import {
+  type Document,
+  isMap,
+  isPair,
+  isScalar,
+  isSeq,
+  LineCounter,
+  type Node,
+  parseDocument,
+  visit,
+  type YAMLError,
+} from 'yaml';
 import type { Diagnostic, SourcePosition } from '../diagnostics.js';
+import { checkYamlStructure, excessiveFlowNesting, SESSION_LIMITS, type SessionLimits } from './limits.js';
 
 export type FieldPath = readonly (string | number)[];
 
@@ -14,11 +26,18 @@ export interface YamlSource {
   positionOf(path: FieldPath, key?: boolean): SourcePosition;
 }
 
-export interface YamlLimits {
-  maxAliasCount: number;
-}
+export type YamlLimits = Pick<
+  SessionLimits,
+  'maxAliasCount' | 'maxDepth' | 'maxExpandedValues' | 'maxKeys' | 'maxLines'
+>;
 
-export const DEFAULT_YAML_LIMITS: YamlLimits = { maxAliasCount: 50 };
+export const DEFAULT_YAML_LIMITS: YamlLimits = {
+  maxAliasCount: SESSION_LIMITS.maxAliasCount,
+  maxDepth: SESSION_LIMITS.maxDepth,
+  maxExpandedValues: SESSION_LIMITS.maxExpandedValues,
+  maxKeys: SESSION_LIMITS.maxKeys,
+  maxLines: SESSION_LIMITS.maxLines,
+};
 
 export function fieldName(path: FieldPath): string {
   let out = '';
@@ -29,47 +48,77 @@ export function fieldName(path: FieldPath): string {
   return out;
 }
 
+/** The inverse of fieldName: `lines[2].wavelength` → ['lines', 2, 'wavelength']. */
+export function parseFieldName(field: string): FieldPath {
+  const path: (string | number)[] = [];
+  for (const m of field.matchAll(/([^.[\]]+)|\[(\d+)\]/g)) {
+    if (m[2] !== undefined) path.push(Number(m[2]));
+    else if (m[1] !== undefined) path.push(m[1]);
+  }
+  return path;
+}
+
 export function parseYamlSource(
   text: string,
   file: string,
-  limits: YamlLimits = DEFAULT_YAML_LIMITS,
+  limits: Partial<YamlLimits> = DEFAULT_YAML_LIMITS,
 ): { source: YamlSource | null; diagnostics: Diagnostic[] } {
+  const limit: YamlLimits = { ...DEFAULT_YAML_LIMITS, ...limits };
   const lineCounter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter, uniqueKeys: true, prettyErrors: false, strict: true });
   const at = (offset: number): SourcePosition => {
     const p = lineCounter.linePos(Math.max(0, Math.min(offset, text.length)));
     return { line: p.line, col: p.col };
   };
-  const diagnostics: Diagnostic[] = [];
-  for (const err of doc.errors) {
-    const pos = at(err.pos[0]);
-    const duplicate = err.code === 'DUPLICATE_KEY';
-    diagnostics.push({
-      file,
-      ...pos,
-      severity: 'error',
-      code: duplicate ? 'duplicate-key' : 'yaml-syntax',
-      field: '',
-      message: firstLine(err.message),
-      hint: duplicate ? 'remove or rename one of the two keys' : 'fix the YAML syntax at this position',
-    });
+  const runaway = excessiveFlowNesting(text, limit.maxDepth);
+  if (runaway >= 0) {
+    lineCounter.addNewLine(0);
+    for (let i = text.indexOf('\n'); i >= 0 && i < runaway; i = text.indexOf('\n', i + 1))
+      lineCounter.addNewLine(i + 1);
+    return { source: null, diagnostics: [tooDeep(file, at(runaway), limit.maxDepth)] };
   }
+  let doc: Document.Parsed;
+  try {
+    // logLevel 'error': the library would otherwise print warnings to the process's stderr.
+    doc = parseDocument(text, {
+      lineCounter,
+      uniqueKeys: false, // checked in checkYamlStructure, in linear time
+      prettyErrors: false,
+      strict: true,
+      logLevel: 'error',
+    });
+  } catch (e) {
+    // The parser recurses on nested flow collections; thousands of `[` exhaust the stack.
+    if (!(e instanceof RangeError)) throw e;
+    return { source: null, diagnostics: [tooDeep(file, { line: 1, col: 1 }, limit.maxDepth)] };
+  }
+  const diagnostics: Diagnostic[] = doc.errors.map((err) =>
+    syntaxDiagnostic(err, text, at(err.pos[0]), file, limit),
+  );
   if (diagnostics.length > 0) return { source: null, diagnostics };
+
+  const structure = checkYamlStructure(doc.contents, (alias) => alias.resolve(doc), at, file, limit);
+  if (structure.length > 0) return { source: null, diagnostics: structure };
 
   let data: unknown;
   try {
-    data = doc.toJS({ maxAliasCount: limits.maxAliasCount });
+    data = doc.toJS({ maxAliasCount: limit.maxAliasCount });
   } catch (e) {
-    // The only throw left after a clean parse is the alias-expansion limit.
+    // Only the library's own alias guard can throw after the checks above; point at the first alias.
+    let first: SourcePosition = { line: 1, col: 1 };
+    visit(doc, {
+      Alias(_key, node) {
+        if (node.range) first = at(node.range[0]);
+        return visit.BREAK;
+      },
+    });
     diagnostics.push({
       file,
-      line: 1,
-      col: 1,
+      ...first,
       severity: 'error',
       code: 'yaml-aliases',
       field: '',
-      message: `too many YAML alias expansions (${firstLine(String((e as Error).message))})`,
-      hint: `write the values out; at most ${limits.maxAliasCount} alias uses are allowed`,
+      message: `the YAML aliases in this file expand too far (${firstLine(String((e as Error).message))})`,
+      hint: 'write the values out instead of repeating them through aliases',
     });
     return { source: null, diagnostics };
   }
@@ -105,6 +154,61 @@ export function parseYamlSource(
 function nodeStart(node: unknown, at: (offset: number) => SourcePosition): SourcePosition | null {
   const range = (node as Node | null | undefined)?.range;
   return range ? at(range[0]) : null;
+}
+
+function tooDeep(file: string, position: SourcePosition, maxDepth: number): Diagnostic {
+  return {
+    file,
+    ...position,
+    severity: 'error',
+    code: 'too-deep',
+    field: '',
+    message: `the data is nested more than ${maxDepth} levels deep; the limit is ${maxDepth}`,
+    hint: 'a session needs only a few levels: look for unclosed brackets or runaway indentation',
+  };
+}
+
+/** The parser's errors, with the common ones said in plain words. */
+function syntaxDiagnostic(
+  err: YAMLError,
+  text: string,
+  position: SourcePosition,
+  file: string,
+  limit: YamlLimits,
+): Diagnostic {
+  const base = { file, ...position, severity: 'error' as const, field: '' };
+  if (err.code === 'DUPLICATE_KEY') {
+    const key = /^[^\s:,{}[\]]+|^"[^"\n]*"|^'[^'\n]*'/.exec(text.slice(err.pos[0]))?.[0];
+    return {
+      ...base,
+      code: 'duplicate-key',
+      message: key
+        ? `the key ${key} appears twice in the same mapping`
+        : 'a key appears twice in the same mapping',
+      hint: 'remove or rename one of the two keys',
+    };
+  }
+  if (err.code === 'TAB_AS_INDENT')
+    return {
+      ...base,
+      code: 'tab-indent',
+      message: 'a tab is used for indentation here; YAML allows only spaces for indentation',
+      hint: 'replace the tab with spaces (set your editor to insert spaces for the Tab key)',
+    };
+  if (err.code === 'MULTIPLE_DOCS')
+    return {
+      ...base,
+      code: 'multiple-documents',
+      message: 'a second YAML document starts here (after a line "---" or "...")',
+      hint: 'one session per file: remove the separator, or move the second session into its own file',
+    };
+  if (/call stack/i.test(err.message)) return tooDeep(file, position, limit.maxDepth);
+  return {
+    ...base,
+    code: 'yaml-syntax',
+    message: firstLine(err.message),
+    hint: 'fix the YAML syntax at this position',
+  };
 }
 
 function firstLine(s: string): string {

@@ -1,0 +1,108 @@
+/**
+ * Templates for a new session file, one per measurement method. Pure: the date, the id
+ * and the schema reference come in as parameters (the command supplies today's date).
+ *
+ * Every value the user must supply is left empty (`~`, YAML's null) with a comment that
+ * says what goes there, so an unfilled template does not read: `lineledger vet` points at
+ * each empty value in turn. Example values would read fine and could end up published as
+ * if they were measurements; empty ones cannot.
+ */
+import { isAbsolute, relative, sep } from 'node:path';
+import type { MeasurementMethod } from './types.js';
+
+export interface ScaffoldInput {
+  method: MeasurementMethod;
+  /** ISO date (YYYY-MM-DD) the file is created, written as the session date. */
+  date: string;
+  id: string;
+  /** What the `$schema=` comment points at: a relative path or an absolute one. */
+  schemaRef: string;
+}
+
+/**
+ * The schema reference for a new file: relative from the file's folder when the file is
+ * inside the package's own folder (this repository), else the schema's absolute path.
+ * Both paths must be absolute.
+ */
+export function schemaReference(newFileDir: string, packageRoot: string, schemaFile: string): string {
+  const inside = relative(packageRoot, newFileDir);
+  if (inside.startsWith('..') || isAbsolute(inside)) return schemaFile.split(sep).join('/');
+  return relative(newFileDir, schemaFile).split(sep).join('/');
+}
+
+const MEASUREMENT: Record<MeasurementMethod, string> = {
+  wavelength: `measurement:
+  method: wavelength
+  unit: nm                    # the unit of your scale: nm, angstrom or um
+  sigma: ~                    # FILL IN: uncertainty of one reading, in that unit (e.g. half a scale division)
+`,
+  'grating-angle': `measurement:
+  method: grating-angle
+  grating: { lines_per_mm: ~ }  # FILL IN: groove density printed on the grating (or spacing_um: instead)
+  order: 1                    # the diffraction order you read
+  sigma: ~                    # FILL IN: uncertainty of one angle setting, in degrees (1 arcminute = 0.017)
+`,
+  screen: `measurement:
+  method: screen
+  grating: { lines_per_mm: ~ }  # FILL IN: groove density printed on the grating (or spacing_um: instead)
+  order: 1                    # the diffraction order you measured
+  screen_distance_mm: ~       # FILL IN: distance from the grating to the screen, in mm
+  # screen_distance_sigma_mm: 2   # how well you know that distance
+  sigma: ~                    # FILL IN: uncertainty of one position on the screen, in mm
+`,
+  pixel: `measurement:
+  method: pixel
+  unit: nm                    # the unit of the calibration wavelengths below
+  sigma: ~                    # FILL IN: uncertainty of one pixel position, in pixels (e.g. 0.5)
+  calibration:
+    degree: 1                 # 1 (straight line) to 3; needs more calibration lines than the degree
+    lines:                    # lines of a known lamp in the same set-up; add as many as you can
+      - { pixel: ~, wavelength: ~ }   # FILL IN: pixel column and known wavelength (in the unit above)
+      - { pixel: ~, wavelength: ~ }   # FILL IN
+      - { pixel: ~, wavelength: ~ }   # FILL IN
+`,
+};
+
+const LINE: Record<MeasurementMethod, { entry: string; what: string }> = {
+  wavelength: { entry: 'wavelength: ~', what: 'the reading, in measurement.unit' },
+  'grating-angle': {
+    entry: 'angle_left_deg: ~, angle_right_deg: ~',
+    what: `table readings on both sides (e.g. "135° 43'"), or angle_deg: from straight through`,
+  },
+  screen: {
+    entry: 'offset_mm: ~',
+    what: 'distance from the central maximum in mm, or separation_mm: between the ±m maxima',
+  },
+  pixel: { entry: 'pixel: ~', what: 'pixel column of the line' },
+};
+
+export function sessionTemplate(input: ScaffoldInput): string {
+  const line = LINE[input.method];
+  const entries = [0, 1, 2]
+    .map((i) => `  - { ${line.entry}, intensity: medium }${i === 0 ? `   # FILL IN: ${line.what}` : ''}`)
+    .join('\n');
+  return `# yaml-language-server: $schema=${input.schemaRef}
+# A new lineledger session (method: ${input.method}).
+# Replace every ~ marked FILL IN with your value; \`lineledger vet\` lists the ones still empty.
+# Lines that start with # are optional extras: delete the # to use one.
+lineledger: 1
+id: ${input.id}${' '.repeat(Math.max(1, 26 - input.id.length))}# lower-case letters, digits and dashes; also the page's folder name
+title: ~                      # FILL IN: what was measured, e.g. "Unlabelled tube C"
+date: ${input.date}              # the day of the measurement; or a UTC date-time such as ${input.date}T21:30:00Z
+observer: ~                   # FILL IN: who took the readings
+# site: { name: School lab, lat: 51.5, lon: -0.1, elevation_m: 20 }
+source:
+  kind: ~                     # FILL IN: lamp, flame, star, nebula, galaxy, sky, laser, other or unknown
+  # name: tube C
+instrument:
+  description: ~              # FILL IN: the set-up, e.g. "student spectrometer, 600 lines/mm grating"
+  # resolution_nm: 1.0        # smallest separation of two lines you could still tell apart
+  # range_nm: [400, 700]      # the wavelengths the set-up could see
+medium: air                   # air or vacuum: what the wavelengths refer to (air for bench work)
+# candidates: { groups: [discharge-gases] }   # narrow the species considered
+${MEASUREMENT[input.method]}lines:                        # one entry per line seen; add or delete entries
+${entries}
+# notes: |
+#   How the run went, in Markdown.
+`;
+}

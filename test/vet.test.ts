@@ -1,0 +1,120 @@
+/** `lineledger vet`: the pure per-file check and the command line (exit codes, output formats). */
+import { spawnSync } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { markDuplicateIds, summaryLine, vetSession } from '../src/commands/vet.js';
+import { bundledCatalog } from './helpers/catalog.js';
+
+const CLI = join(process.cwd(), 'dist', 'cli.js');
+const bytes = (s: string) => new TextEncoder().encode(s);
+
+function run(args: string[], cwd = process.cwd()) {
+  const r = spawnSync(process.execPath, [CLI, ...args], { encoding: 'utf8', cwd });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+function folder(files: Record<string, string>): string {
+  const dir = mkdtempSync(join(tmpdir(), 'll-vet-'));
+  for (const [name, text] of Object.entries(files)) {
+    mkdirSync(join(dir, name, '..'), { recursive: true });
+    writeFileSync(join(dir, name), text);
+  }
+  return dir;
+}
+
+const GOOD =
+  'lineledger: 1\nsource: { kind: lamp }\nmeasurement: { sigma: 0.3 }\nlines:\n  - wavelength: 546.1\n';
+
+describe('vetSession (pure)', () => {
+  it('passes a good session with no diagnostics', () => {
+    const r = vetSession('good.yaml', bytes(GOOD), bundledCatalog());
+    expect(r).toMatchObject({ ok: true, id: 'good', diagnostics: [] });
+  });
+
+  it('counts reduction problems, not only reading ones', () => {
+    // Reads fine, but a negative angle in a positive order gives a negative wavelength.
+    const text =
+      'lineledger: 1\nmeasurement:\n  method: grating-angle\n  grating: { lines_per_mm: 600 }\n  sigma: 0.05\nlines:\n  - angle_deg: -10\n  - angle_deg: 10\n';
+    const r = vetSession('far.yaml', bytes(text), bundledCatalog());
+    expect(r.ok).toBe(false);
+    expect(r.diagnostics.find((d) => d.severity === 'error')).toMatchObject({ code: 'order-sign', line: 7 });
+  });
+
+  it('warns about unknown candidate species at their place in the file', () => {
+    const text = `${GOOD}candidates:\n  species: [Hg I, Xx IV]\n`;
+    const r = vetSession('cand.yaml', bytes(text), bundledCatalog());
+    expect(r.ok).toBe(true);
+    const w = r.diagnostics.find((d) => d.code === 'unknown-candidate');
+    expect(w).toMatchObject({ severity: 'warning', field: 'candidates.species[1]', line: 7 });
+  });
+
+  it('gives later files with the same id an error', () => {
+    const catalog = bundledCatalog();
+    const a = vetSession('a/x.yaml', bytes(GOOD), catalog);
+    const b = vetSession('b/x.yaml', bytes(GOOD), catalog);
+    const [first, second] = markDuplicateIds([a, b]);
+    expect(first?.ok).toBe(true);
+    expect(second?.ok).toBe(false);
+    expect(second?.diagnostics.at(-1)?.code).toBe('duplicate-id');
+    expect(summaryLine([first!, second!])).toBe('2 files checked: 1 clean, 1 with problems');
+  });
+});
+
+describe('lineledger vet (command line)', () => {
+  it('passes every demo session with exit 0 and a summary line', () => {
+    const n = readdirSync('data/sessions').filter((f) => /\.ya?ml$/.test(f)).length;
+    const r = run(['vet', 'data/sessions']);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain(`${n} files checked: ${n} clean, 0 with problems`);
+  });
+
+  it('prints problems compiler style with the source line and a caret, and exits 1', () => {
+    const dir = folder({
+      'bad.yaml': 'lineledger: 1\nlines:\n  - wavelength: 500\n    intensty: 3\n',
+      'good.yml': GOOD,
+    });
+    const r = run(['vet', dir]);
+    expect(r.code).toBe(1);
+    const file = join(dir, 'bad.yaml');
+    expect(r.stderr).toContain(
+      `${file}:4:5: error[unknown-key] lines[0].intensty: unknown key "intensty" — did you mean "intensity"?`,
+    );
+    expect(r.stderr).toContain(' 4 |     intensty: 3\n   |     ^');
+    expect(r.stderr).toContain('2 files checked: 1 clean, 1 with problems');
+  });
+
+  it('looks into sub-folders only with --recursive', () => {
+    const dir = folder({ 'top.yaml': GOOD, 'deeper/bad.yaml': 'lineledger: 2\nlines: []\n' });
+    expect(run(['vet', dir]).code).toBe(0);
+    const deep = run(['vet', '--recursive', dir]);
+    expect(deep.code).toBe(1);
+    expect(deep.stderr).toContain('2 files checked: 1 clean, 1 with problems');
+  });
+
+  it('prints a JSON document for machines with --format json', () => {
+    const dir = folder({ 'a.yaml': GOOD, 'b.yaml': 'lineledger: 1\nlines:\n  - wavelength: -1\n' });
+    const r = run(['vet', '--format', 'json', dir]);
+    expect(r.code).toBe(1);
+    const doc = JSON.parse(r.stdout);
+    expect(doc.summary).toMatchObject({ files: 2, clean: 1, with_problems: 1, errors: 1 });
+    expect(doc.files.map((f: { ok: boolean }) => f.ok)).toEqual([true, false]);
+    expect(doc.files[1].diagnostics[0]).toMatchObject({
+      file: join(dir, 'b.yaml'),
+      line: 3,
+      col: 17,
+      code: 'invalid-value',
+      field: 'lines[0].wavelength',
+    });
+  });
+
+  it('exits 2 when it cannot run: a missing path or an unreadable config', () => {
+    const missing = run(['vet', join(tmpdir(), 'no-such-folder-for-vet')]);
+    expect(missing.code).toBe(2);
+    expect(missing.stderr).toContain('cannot find');
+    const dir = folder({ 'a.yaml': GOOD });
+    expect(run(['vet', '--config', join(dir, 'missing.yaml'), dir]).code).toBe(2);
+    expect(run(['vet', '--format', 'xml', dir]).code).toBe(2);
+  });
+});
