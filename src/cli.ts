@@ -8,6 +8,11 @@ import { Command, CommanderError } from 'commander';
 import { registerBuild } from './commands/build.js';
 import { CommandFailure, EXIT_CANNOT_RUN, EXIT_OK } from './commands/common.js';
 import { registerIdentify } from './commands/identify.js';
+import { registerImportNist } from './commands/importNist.js';
+import { registerLookup } from './commands/lookup.js';
+import { registerPreview } from './commands/preview.js';
+import { registerScaffold } from './commands/scaffold.js';
+import { registerVet } from './commands/vet.js';
 import { PROGRAM_VERSION } from './version.js';
 
 export async function main(argv: string[]): Promise<number> {
@@ -22,7 +27,16 @@ export async function main(argv: string[]): Promise<number> {
     .version(PROGRAM_VERSION)
     .exitOverride()
     .configureOutput({ writeErr: (s) => process.stderr.write(s) });
-  for (const register of [registerIdentify, registerBuild]) register(program, done);
+  for (const register of [
+    registerIdentify,
+    registerBuild,
+    registerLookup,
+    registerImportNist,
+    registerPreview,
+    registerVet,
+    registerScaffold,
+  ])
+    register(program, done);
   try {
     await program.parseAsync(argv);
   } catch (e) {

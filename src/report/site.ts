@@ -37,7 +37,8 @@ export interface RenderInput {
   builtOn: string | null;
 }
 
-interface IndexRow {
+/** One row of the index table; a plain value so a cached or worker-built session can carry it. */
+export interface IndexRow {
   sortKey: string;
   date: string | null;
   title: string;
@@ -50,68 +51,114 @@ interface IndexRow {
   diagnostics: string[];
 }
 
-export async function renderSite(input: RenderInput, cache: ChartCache = new Map()): Promise<SiteFile[]> {
-  const { catalog, templates } = input;
-  const files: SiteFile[] = [{ path: 'style.css', contents: templates.css }];
-  const rows: IndexRow[] = [];
-  const overview: { session: string; species: string }[] = [];
-  const common = {
-    program: { version: input.programVersion },
-    catalog,
-    site: input.settings,
-    builtOn: input.builtOn,
-  };
+export interface OverviewEntry {
+  session: string;
+  species: string;
+}
 
-  for (const { outcome, text } of input.outcomes) {
-    const fileName = outcome.file.replace(/^.*[\\/]/, '');
-    if (!outcome.ok) {
-      rows.push({
-        sortKey: outcome.session?.date ?? '',
-        date: outcome.session?.date ?? null,
-        title: outcome.session?.title ?? fileName,
-        file: fileName,
-        href: null,
-        source: outcome.session?.source.kind ?? '—',
-        explanation: 'not built: see the problems below',
-        confidence: '—',
-        status: 'failed',
-        diagnostics: outcome.diagnostics.map((d: Diagnostic) =>
-          formatDiagnosticLine({ ...d, file: fileName }),
-        ),
-      });
-      continue;
-    }
-    const { session, reduction, identification } = outcome;
-    const result = buildResult(reduction, identification, catalog, input.programVersion);
-    const model = await sessionPageModel(
-      {
-        session,
-        reduction,
-        identification,
-        result,
-        catalog,
-        warnings: outcome.warnings.map((d) => formatDiagnosticLine({ ...d, file: fileName })),
-        buildOptions: input.buildOptions,
-        programVersion: input.programVersion,
-      },
-      cache,
-    );
-    const dir = `sessions/${session.id}`;
-    const body = templates.session({ ...model, root: '../../' });
-    files.push({
+/** Everything the render stage needs besides the sessions themselves. */
+export type RenderContext = Omit<RenderInput, 'outcomes'>;
+
+/** What the index needs to know of a session it cannot link to. */
+export interface SessionHeadline {
+  date: string | null;
+  title: string;
+  sourceKind: string;
+}
+
+/** One session's share of the site: its own files, its index row and its overview findings. */
+export interface SessionPart {
+  files: SiteFile[];
+  row: IndexRow;
+  overview: OverviewEntry[];
+}
+
+function baseName(file: string): string {
+  return file.replace(/^.*[\\/]/, '');
+}
+
+function commonOf(ctx: RenderContext) {
+  return {
+    program: { version: ctx.programVersion },
+    catalog: ctx.catalog,
+    site: ctx.settings,
+    builtOn: ctx.builtOn,
+  };
+}
+
+/** The index row of a session that was not built (its problems listed under it). */
+export function failedRow(
+  fileName: string,
+  headline: SessionHeadline | null,
+  diagnostics: readonly Diagnostic[],
+): IndexRow {
+  return {
+    sortKey: headline?.date ?? '',
+    date: headline?.date ?? null,
+    title: headline?.title ?? fileName,
+    file: fileName,
+    href: null,
+    source: headline?.sourceKind ?? '—',
+    explanation: 'not built: see the problems below',
+    confidence: '—',
+    status: 'failed',
+    diagnostics: diagnostics.map((d) => formatDiagnosticLine({ ...d, file: fileName })),
+  };
+}
+
+/**
+ * One session → its files and index row. Depends only on the outcome, its text and the
+ * context, which is what lets a build cache it or run it in a worker.
+ */
+export async function renderSessionPart(
+  outcome: SessionOutcome,
+  text: string,
+  ctx: RenderContext,
+  cache: ChartCache = new Map(),
+): Promise<SessionPart> {
+  const { catalog, templates } = ctx;
+  const fileName = baseName(outcome.file);
+  if (!outcome.ok) {
+    const headline = outcome.session
+      ? { date: outcome.session.date, title: outcome.session.title, sourceKind: outcome.session.source.kind }
+      : null;
+    return { files: [], row: failedRow(fileName, headline, outcome.diagnostics), overview: [] };
+  }
+  const { session, reduction, identification } = outcome;
+  const result = buildResult(reduction, identification, catalog, ctx.programVersion);
+  const model = await sessionPageModel(
+    {
+      session,
+      reduction,
+      identification,
+      result,
+      catalog,
+      warnings: outcome.warnings.map((d) => formatDiagnosticLine({ ...d, file: fileName })),
+      buildOptions: ctx.buildOptions,
+      programVersion: ctx.programVersion,
+    },
+    cache,
+  );
+  const dir = `sessions/${session.id}`;
+  const body = templates.session({ ...model, root: '../../' });
+  const files: SiteFile[] = [
+    {
       path: `${dir}/index.html`,
       contents: templates.layout({
-        ...common,
+        ...commonOf(ctx),
         root: '../../',
-        pageTitle: `${session.title} — ${input.settings.title}`,
+        pageTitle: `${session.title} — ${ctx.settings.title}`,
         body,
       }),
-    });
-    files.push({ path: `${dir}/result.json`, contents: `${JSON.stringify(result, null, 2)}\n` });
-    files.push({ path: `${dir}/lines.csv`, contents: linesCsv(result) });
-    files.push({ path: `${dir}/session.yaml`, contents: text });
-    for (const s of identification.explanation.species) overview.push({ session: session.id, species: s });
-    rows.push({
+    },
+    { path: `${dir}/result.json`, contents: `${JSON.stringify(result, null, 2)}\n` },
+    { path: `${dir}/lines.csv`, contents: linesCsv(result) },
+    { path: `${dir}/session.yaml`, contents: text },
+  ];
+  return {
+    files,
+    overview: identification.explanation.species.map((s) => ({ session: session.id, species: s })),
+    row: {
       sortKey: session.date ?? '',
       date: session.date,
       title: session.title,
@@ -124,11 +171,21 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
         : '—',
       status: identification.explanation.status,
       diagnostics: [],
-    });
-  }
+    },
+  };
+}
 
+/** The archive-wide files: the stylesheet and the index page (rows in any order; sorted here). */
+export async function renderIndexFiles(
+  rowsIn: readonly IndexRow[],
+  overview: readonly OverviewEntry[],
+  ctx: RenderContext,
+  cache: ChartCache = new Map(),
+): Promise<SiteFile[]> {
+  const { templates } = ctx;
+  const common = commonOf(ctx);
   // Newest first; undated last; ties by title so the order never depends on the file system.
-  rows.sort(
+  const rows = [...rowsIn].sort(
     (a, b) =>
       (b.sortKey || '0').localeCompare(a.sortKey || '0') ||
       a.title.localeCompare(b.title) ||
@@ -137,11 +194,13 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
   const count = (s: string) => rows.filter((r) => r.status === s).length;
   const overviewCaption = `Species in each session's explanation (${overview.length} findings across ${rows.length} sessions).`;
   const overviewChartSvg =
-    overview.length > 0 ? (await renderChart(overviewChart(overviewCaption, overview), cache)).svg : null;
+    overview.length > 0
+      ? (await renderChart(overviewChart(overviewCaption, [...overview]), cache)).svg
+      : null;
   const indexBody = templates.index({
     ...common,
     root: '',
-    site: { ...input.settings, introHtml: renderNotes(input.settings.introMarkdown) },
+    site: { ...ctx.settings, introHtml: renderNotes(ctx.settings.introMarkdown) },
     sessions: rows,
     counts: {
       total: rows.length,
@@ -154,9 +213,30 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
     overview: overviewChartSvg ? { svg: overviewChartSvg, caption: overviewCaption } : null,
     generalCaution: GENERAL_CAUTION,
   });
-  files.push({
-    path: 'index.html',
-    contents: templates.layout({ ...common, root: '', pageTitle: input.settings.title, body: indexBody }),
-  });
+  return [
+    { path: 'style.css', contents: templates.css },
+    {
+      path: 'index.html',
+      contents: templates.layout({ ...common, root: '', pageTitle: ctx.settings.title, body: indexBody }),
+    },
+  ];
+}
+
+export function sortFiles(files: SiteFile[]): SiteFile[] {
   return files.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
+}
+
+export async function renderSite(input: RenderInput, cache: ChartCache = new Map()): Promise<SiteFile[]> {
+  const { outcomes, ...ctx } = input;
+  const files: SiteFile[] = [];
+  const rows: IndexRow[] = [];
+  const overview: OverviewEntry[] = [];
+  for (const { outcome, text } of outcomes) {
+    const part = await renderSessionPart(outcome, text, ctx, cache);
+    files.push(...part.files);
+    rows.push(part.row);
+    overview.push(...part.overview);
+  }
+  files.push(...(await renderIndexFiles(rows, overview, ctx, cache)));
+  return sortFiles(files);
 }

@@ -1,0 +1,163 @@
+/**
+ * The build cache on disk: one JSON file per session unit (named by its key) and one SVG file
+ * per rendered chart (named by its spec hash). Entries are written to a temporary name and
+ * renamed, so a killed build leaves whole entries or none; an unreadable entry is a miss.
+ * A `fingerprint` file names the program that wrote the cache; another program starts afresh.
+ */
+import { randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
+import { threadId } from 'node:worker_threads';
+import type { SessionUnit } from '../parallel/unit.js';
+import type { SessionPart, SiteFile } from '../report/site.js';
+import { contentHash } from '../write/manifest.js';
+
+export interface FileRef {
+  path: string;
+  sha256: string;
+}
+
+/** A cached session unit with its files as paths and hashes only. */
+export type UnitHead = Omit<SessionUnit, 'part'> & {
+  part: Omit<SessionPart, 'files'> & { files: FileRef[] };
+};
+
+export const CACHE_DIR_NAME = '.lineledger-cache';
+
+/** `.lineledger-cache/<site folder name>/` beside the output folder, never inside the site. */
+export function defaultCacheDir(outDir: string): string {
+  const out = resolve(outDir);
+  return join(dirname(out), CACHE_DIR_NAME, basename(out));
+}
+
+function writeAtomically(path: string, contents: string): void {
+  const tmp = `${path}.${process.pid}-${threadId}-${randomBytes(4).toString('hex')}.tmp`;
+  writeFileSync(tmp, contents);
+  renameSync(tmp, path);
+}
+
+function readOrUndefined(path: string): string | undefined {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch {
+    return undefined;
+  }
+}
+
+export function chartDirOf(cacheDir: string): string {
+  return join(cacheDir, 'charts');
+}
+
+/**
+ * A chart cache (the Map renderChart takes) backed by the chart folder: looked-up charts are
+ * read lazily, new ones written through. Safe to share between workers (whole-file renames).
+ */
+export class ChartStore extends Map<string, string> {
+  constructor(private readonly dir: string | null) {
+    super();
+  }
+  override get(hash: string): string | undefined {
+    const held = super.get(hash);
+    if (held !== undefined || this.dir === null) return held;
+    const svg = readOrUndefined(join(this.dir, `${hash}.svg`));
+    if (svg !== undefined) super.set(hash, svg);
+    return svg;
+  }
+  override set(hash: string, svg: string): this {
+    super.set(hash, svg);
+    if (this.dir !== null) {
+      try {
+        writeAtomically(join(this.dir, `${hash}.svg`), svg);
+      } catch {
+        // A cache that cannot be written only costs time on the next build.
+      }
+    }
+    return this;
+  }
+}
+
+export class SessionStore {
+  private readonly sessionsDir: string;
+  readonly chartDir: string;
+
+  /** Opens (or creates) the cache folder; a cache written by another program is emptied. */
+  constructor(
+    readonly dir: string,
+    fingerprint: string,
+  ) {
+    this.sessionsDir = join(dir, 'sessions');
+    this.chartDir = chartDirOf(dir);
+    const stamp = join(dir, 'fingerprint');
+    const found = readOrUndefined(stamp);
+    // Never empty a folder that is not a cache (a mistyped --cache-dir could name the sessions).
+    if (found === undefined && existsSync(dir) && readdirSync(dir).length > 0)
+      throw new Error(
+        `${dir} is not a lineledger cache (it has no fingerprint file): name a new or empty folder`,
+      );
+    if (found !== fingerprint) {
+      // Only what this cache itself made: --cache-dir may name a folder holding other things.
+      for (const own of [this.sessionsDir, this.chartDir, join(dir, 'site-manifest.json'), stamp])
+        rmSync(own, { recursive: true, force: true });
+      mkdirSync(this.sessionsDir, { recursive: true });
+      mkdirSync(this.chartDir, { recursive: true });
+      writeAtomically(stamp, fingerprint);
+    } else {
+      mkdirSync(this.sessionsDir, { recursive: true });
+      mkdirSync(this.chartDir, { recursive: true });
+    }
+  }
+
+  /**
+   * A cached session without its files' contents (row, problems, file paths and hashes): a
+   * build that can keep the files already in the site never reads them.
+   */
+  get(key: string): UnitHead | undefined {
+    const text = readOrUndefined(join(this.sessionsDir, `${key}.json`));
+    if (text === undefined || !existsSync(join(this.sessionsDir, `${key}.files.json`))) return undefined;
+    try {
+      const head = JSON.parse(text) as UnitHead;
+      return head && typeof head.fileName === 'string' && Array.isArray(head.part?.files) ? head : undefined;
+    } catch {
+      return undefined;
+    }
+  }
+
+  /** The files of a cached session (read only when the site needs them written). */
+  files(key: string): SiteFile[] {
+    const text = readOrUndefined(join(this.sessionsDir, `${key}.files.json`));
+    try {
+      return JSON.parse(text ?? '') as SiteFile[];
+    } catch {
+      throw new Error(`the cache entry ${key} is damaged: build once with --no-cache`);
+    }
+  }
+
+  put(key: string, unit: SessionUnit): void {
+    const head: UnitHead = {
+      ...unit,
+      part: {
+        ...unit.part,
+        files: unit.part.files.map((f) => ({ path: f.path, sha256: contentHash(f.contents) })),
+      },
+    };
+    try {
+      // Files first: a head is only ever found with its files beside it.
+      writeAtomically(join(this.sessionsDir, `${key}.files.json`), JSON.stringify(unit.part.files));
+      writeAtomically(join(this.sessionsDir, `${key}.json`), JSON.stringify(head));
+    } catch {
+      // See ChartStore.set.
+    }
+  }
+
+  /** Drop what this build did not use, so the cache stays the size of the archive. */
+  prune(keys: ReadonlySet<string>, charts: ReadonlySet<string>): void {
+    const sweep = (dir: string, keep: (stem: string) => boolean) => {
+      for (const name of readdirSync(dir)) {
+        const stem = name.replace(/(\.files)?\.(json|svg)$/, '');
+        if (name.endsWith('.tmp') || !keep(stem)) rmSync(join(dir, name), { force: true });
+      }
+    };
+    sweep(this.sessionsDir, (k) => keys.has(k));
+    sweep(this.chartDir, (h) => charts.has(h));
+  }
+}

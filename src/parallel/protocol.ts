@@ -1,0 +1,26 @@
+/** Messages between the build and its workers (plain values: structured clone carries them). */
+import type { Catalog } from '../lines/types.js';
+import type { RenderContext } from '../report/site.js';
+import type { TemplateTexts } from '../report/templates.js';
+import type { InstrumentSpec } from '../session/types.js';
+import type { SessionUnit } from './unit.js';
+
+/** What a worker loads once: the catalog is cloned in, the templates compiled from their text. */
+export interface WorkerInit {
+  catalog: Catalog;
+  templates: TemplateTexts;
+  render: Omit<RenderContext, 'catalog' | 'templates'>;
+  instrumentDefaults: InstrumentSpec | null;
+  /** The cache's chart folder, or null without a cache. */
+  chartDir: string | null;
+}
+
+export interface TaskMessage {
+  index: number;
+  path: string;
+  bytes: Uint8Array;
+}
+
+export type ResultMessage =
+  | { index: number; ok: true; unit: SessionUnit; ms: number }
+  | { index: number; ok: false; error: string };

@@ -1,0 +1,81 @@
+/**
+ * The unit of work of a build: one session file → its share of the site, as a plain value that
+ * can cross a worker boundary and sit in the cache. Runs the pure stages and the session's part
+ * of the render stage; the same function serves the serial path and the workers.
+ */
+import type { Diagnostic } from '../diagnostics.js';
+import type { Catalog } from '../lines/types.js';
+import { runSession } from '../pipeline.js';
+import type { ChartCache } from '../report/charts/render.js';
+import {
+  type RenderContext,
+  renderSessionPart,
+  type SessionHeadline,
+  type SessionPart,
+} from '../report/site.js';
+import type { InstrumentSpec } from '../session/types.js';
+
+export interface SessionUnit {
+  /** The file's base name; diagnostics carry it too (the build puts the full path back). */
+  fileName: string;
+  ok: boolean;
+  id: string | null;
+  headline: SessionHeadline | null;
+  /** The problems that stopped it (when not ok). */
+  diagnostics: Diagnostic[];
+  warnings: Diagnostic[];
+  part: SessionPart;
+  /** Spec hashes of the charts its page uses, so the chart cache keeps them. */
+  charts: string[];
+}
+
+export interface UnitContext {
+  render: RenderContext;
+  instrumentDefaults: InstrumentSpec | null;
+}
+
+/** A chart cache that also notes which charts were asked for. */
+export class NotingCache extends Map<string, string> {
+  readonly asked = new Set<string>();
+  constructor(private readonly inner: ChartCache) {
+    super();
+  }
+  override get(key: string): string | undefined {
+    this.asked.add(key);
+    return this.inner.get(key);
+  }
+  override set(key: string, value: string): this {
+    this.asked.add(key);
+    this.inner.set(key, value);
+    return this;
+  }
+}
+
+const baseName = (file: string) => file.replace(/^.*[\\/]/, '');
+
+export async function processSession(
+  path: string,
+  bytes: Uint8Array,
+  ctx: UnitContext,
+  charts: ChartCache,
+): Promise<SessionUnit> {
+  const fileName = baseName(path);
+  const catalog: Catalog = ctx.render.catalog;
+  const outcome = runSession(path, bytes, catalog, { instrumentDefaults: ctx.instrumentDefaults });
+  // Buffer, not TextDecoder: the copy in the site must keep a byte-order mark if there is one.
+  const text = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('utf8');
+  const noting = new NotingCache(charts);
+  const part = await renderSessionPart(outcome, text, ctx.render, noting);
+  const local = (d: Diagnostic): Diagnostic => ({ ...d, file: fileName });
+  const session = outcome.session;
+  return {
+    fileName,
+    ok: outcome.ok,
+    id: session?.id ?? null,
+    headline: session ? { date: session.date, title: session.title, sourceKind: session.source.kind } : null,
+    diagnostics: outcome.ok ? [] : outcome.diagnostics.map(local),
+    warnings: outcome.ok ? outcome.warnings.map(local) : [],
+    part,
+    charts: [...noting.asked].sort(),
+  };
+}

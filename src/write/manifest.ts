@@ -1,0 +1,92 @@
+/**
+ * What the last build wrote: each file's SHA-256 and the identity of the file on disk (inode,
+ * size, change time). A file of the live site whose identity still matches was not touched
+ * since, so its recorded hash is its content: the next build can hard-link it into the
+ * staging folder instead of writing the same bytes again, and when nothing at all changed it
+ * need not swap. Any edit of a site file changes its change time (users cannot set it), so an
+ * edited file is simply written afresh.
+ */
+import { createHash } from 'node:crypto';
+import { readdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
+import { join, relative, resolve } from 'node:path';
+
+export interface ManifestEntry {
+  sha256: string;
+  size: number;
+  ino: number;
+  ctimeMs: number;
+  mtimeMs: number;
+}
+
+export interface Manifest {
+  /** The output folder it describes (absolute). */
+  out: string;
+  files: Record<string, ManifestEntry>;
+}
+
+export function contentHash(contents: string): string {
+  return createHash('sha256').update(contents).digest('hex');
+}
+
+function identity(path: string): Omit<ManifestEntry, 'sha256'> | null {
+  try {
+    const s = statSync(path);
+    return s.isFile() ? { size: s.size, ino: s.ino, ctimeMs: s.ctimeMs, mtimeMs: s.mtimeMs } : null;
+  } catch {
+    return null;
+  }
+}
+
+export function readManifest(path: string, outDir: string): Manifest | null {
+  try {
+    const m = JSON.parse(readFileSync(path, 'utf8')) as Manifest;
+    return m && m.out === resolve(outDir) && typeof m.files === 'object' ? m : null;
+  } catch {
+    return null;
+  }
+}
+
+/** The files of the live site still exactly as the manifest recorded them: path → SHA-256. */
+export function verifiedFiles(manifest: Manifest | null): Map<string, string> {
+  const ok = new Map<string, string>();
+  if (!manifest) return ok;
+  for (const [path, entry] of Object.entries(manifest.files)) {
+    const now = identity(join(manifest.out, path));
+    if (
+      now &&
+      now.size === entry.size &&
+      now.ino === entry.ino &&
+      now.ctimeMs === entry.ctimeMs &&
+      now.mtimeMs === entry.mtimeMs
+    )
+      ok.set(path, entry.sha256);
+  }
+  return ok;
+}
+
+/** Every file under dir, as paths relative to it with forward slashes. */
+export function listFiles(dir: string): string[] {
+  const out: string[] = [];
+  const walk = (d: string) => {
+    for (const e of readdirSync(d, { withFileTypes: true })) {
+      const p = join(d, e.name);
+      if (e.isDirectory()) walk(p);
+      else out.push(relative(dir, p).split('\\').join('/'));
+    }
+  };
+  walk(dir);
+  return out;
+}
+
+/** Records the site as it now is on disk (after the swap), given each file's hash. */
+export function writeManifest(path: string, outDir: string, hashes: ReadonlyMap<string, string>): void {
+  const out = resolve(outDir);
+  const files: Record<string, ManifestEntry> = {};
+  for (const [p, sha256] of [...hashes].sort((a, b) => (a[0] < b[0] ? -1 : 1))) {
+    const id = identity(join(out, p));
+    if (id) files[p] = { sha256, ...id };
+  }
+  const tmp = `${path}.${process.pid}.tmp`;
+  writeFileSync(tmp, JSON.stringify({ out, files } satisfies Manifest));
+  renameSync(tmp, path);
+}

@@ -1,0 +1,49 @@
+/** Worker threads: a parallel build writes the same bytes as a serial one. */
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { buildSite } from '../../src/build.js';
+import { loadCatalog } from '../../src/lines/load.js';
+import { autoJobs, SERIAL_BELOW } from '../../src/parallel/pool.js';
+import { archive, optionsFor, snapshot, tempDir } from './helpers.js';
+
+const loaded = loadCatalog();
+if (!loaded.ok) throw new Error('the bundled catalog does not load');
+const catalog = loaded.value;
+
+describe('parallel build', () => {
+  it('gives the same site with 2 workers as serially, failures and duplicate ids included', async () => {
+    const { dir } = archive(8);
+    const { writeFileSync } = await import('node:fs');
+    writeFileSync(join(dir, '0100-broken.yaml'), 'lineledger: 1\nlines:\n  - { wavelength: 500\n');
+    writeFileSync(
+      join(dir, '0101-same-id.yaml'),
+      'lineledger: 1\nid: tube-b-2026-03-14-a0000\nlines:\n  - wavelength: 500\n',
+    );
+    const root = tempDir('ll-par-');
+    const serial = await buildSite(
+      optionsFor(dir, join(root, 'serial'), { cacheDir: null, jobs: 1 }),
+      catalog,
+    );
+    const parallel = await buildSite(
+      optionsFor(dir, join(root, 'parallel'), { cacheDir: null, jobs: 2 }),
+      catalog,
+    );
+    expect(parallel.jobs).toBe(2);
+    expect(serial.jobs).toBe(1);
+    expect(parallel.failed).toBe(2);
+    expect(parallel.sessions.map((s) => [s.file, s.status, s.diagnostics.map((d) => d.code)])).toEqual(
+      serial.sessions.map((s) => [s.file, s.status, s.diagnostics.map((d) => d.code)]),
+    );
+    expect(parallel.sessions.find((s) => s.file.endsWith('same-id.yaml'))?.diagnostics[0]?.code).toBe(
+      'duplicate-id',
+    );
+    const a = snapshot(join(root, 'serial'));
+    expect(a.size).toBe(1 + 1 + 8 * 4);
+    expect(snapshot(join(root, 'parallel'))).toEqual(a);
+  });
+
+  it('stays serial for a handful of sessions', () => {
+    expect(autoJobs(SERIAL_BELOW - 1)).toBe(1);
+    expect(autoJobs(500)).toBeGreaterThanOrEqual(2);
+  });
+});

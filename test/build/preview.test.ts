@@ -1,0 +1,147 @@
+/** The preview server, on 127.0.0.1 with a bounded number of requests, closed at the end. */
+
+import { readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { request } from 'node:http';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { EVENTS_PATH, type PreviewServer, RELOAD_SNIPPET, startPreview } from '../../src/commands/preview.js';
+import { writeSiteAtomically } from '../../src/write/writeSite.js';
+import { tempDir } from './helpers.js';
+
+const PAGE = '<!doctype html>\n<html><body><p>record</p></body></html>\n';
+
+interface Reply {
+  status: number;
+  type: string | undefined;
+  location: string | undefined;
+  body: string;
+}
+
+/** One raw request (the path is sent as given: no client-side normalisation of `..`). */
+function get(server: PreviewServer, path: string, method = 'GET'): Promise<Reply> {
+  const url = new URL(server.url);
+  return new Promise((resolve, reject) => {
+    const req = request({ host: url.hostname, port: url.port, path, method, timeout: 5000 }, (res) => {
+      let body = '';
+      res.setEncoding('utf8');
+      res.on('data', (c: string) => {
+        body += c;
+      });
+      res.on('end', () =>
+        resolve({
+          status: res.statusCode ?? 0,
+          type: res.headers['content-type'],
+          location: res.headers.location,
+          body,
+        }),
+      );
+    });
+    req.on('timeout', () => req.destroy(new Error('timed out')));
+    req.on('error', reject);
+    req.end();
+  });
+}
+
+describe('lineledger preview', () => {
+  const parent = tempDir('ll-preview-');
+  const root = join(parent, 'site');
+  let server: PreviewServer;
+
+  beforeAll(async () => {
+    writeFileSync(join(parent, 'secret.txt'), 'outside the site\n');
+    writeSiteAtomically(root, [
+      { path: 'index.html', contents: PAGE },
+      { path: 'style.css', contents: 'p { color: black }\n' },
+      { path: 'sessions/a/index.html', contents: PAGE },
+      { path: 'sessions/a/result.json', contents: '{}\n' },
+      { path: 'sessions/a/lines.csv', contents: 'index\n0\n' },
+      { path: 'sessions/b/result.json', contents: '{}\n' },
+    ]);
+    // A symbolic link inside the site that points out of it.
+    symlinkSync(join(parent, 'secret.txt'), join(root, 'link.txt'));
+    server = await startPreview({ root, host: '127.0.0.1', port: 0 });
+  });
+  afterAll(async () => {
+    await server.close();
+  });
+
+  it('listens on 127.0.0.1', () => {
+    expect(server.url).toMatch(/^http:\/\/127\.0\.0\.1:\d+\/$/);
+  });
+
+  it('serves HTML with the reload snippet, and the file on disk stays without it', async () => {
+    const r = await get(server, '/');
+    expect(r.status).toBe(200);
+    expect(r.type).toBe('text/html; charset=utf-8');
+    expect(r.body).toContain(RELOAD_SNIPPET);
+    expect(r.body.indexOf(RELOAD_SNIPPET)).toBeLessThan(r.body.indexOf('</body>'));
+    const page = await get(server, '/sessions/a/');
+    expect(page.body).toContain(RELOAD_SNIPPET);
+    expect(readFileSync(join(root, 'index.html'), 'utf8')).toBe(PAGE);
+    expect(readFileSync(join(root, 'sessions/a/index.html'), 'utf8')).not.toMatch(/<script/i);
+  });
+
+  it('gives each file its content type and leaves non-HTML untouched', async () => {
+    const css = await get(server, '/style.css');
+    expect([css.status, css.type, css.body]).toEqual([
+      200,
+      'text/css; charset=utf-8',
+      'p { color: black }\n',
+    ]);
+    expect((await get(server, '/sessions/a/result.json')).type).toBe('application/json; charset=utf-8');
+    expect((await get(server, '/sessions/a/lines.csv')).type).toBe('text/csv; charset=utf-8');
+  });
+
+  it('refuses paths outside the site folder', async () => {
+    for (const path of [
+      '/../secret.txt',
+      '/%2e%2e/secret.txt',
+      '/sessions/..%2f..%2fsecret.txt',
+      '/sessions/%2e%2e/%2e%2e/secret.txt',
+      '/..%5csecret.txt',
+      '/%00',
+      '/link.txt',
+    ]) {
+      const r = await get(server, path);
+      expect(r.status, path).toBe(404);
+      expect(r.body, path).not.toContain('outside the site');
+    }
+  });
+
+  it('lists no folders: a folder is its index.html, or not found', async () => {
+    expect((await get(server, '/sessions/b/')).status).toBe(404);
+    expect((await get(server, '/sessions/')).status).toBe(404);
+    const r = await get(server, '/sessions/a');
+    expect([r.status, r.location]).toEqual([301, '/sessions/a/']);
+    expect((await get(server, '/', 'POST')).status).toBe(405);
+  });
+
+  it('tells an open page to reload when a rebuild swaps the site in', async () => {
+    const url = new URL(server.url);
+    const message = await new Promise<string>((resolve, reject) => {
+      const req = request({ host: url.hostname, port: url.port, path: EVENTS_PATH }, (res) => {
+        expect(res.headers['content-type']).toBe('text/event-stream');
+        let seen = '';
+        res.setEncoding('utf8');
+        res.on('data', (c: string) => {
+          seen += c;
+          if (seen.includes(': listening')) {
+            // Connected: now rebuild, as `lineledger build` does.
+            if (!seen.includes('rebuilt')) {
+              seen += ' rebuilt';
+              writeSiteAtomically(root, [{ path: 'index.html', contents: PAGE }]);
+            }
+          }
+          if (seen.includes('data: reload')) {
+            req.destroy();
+            resolve(seen);
+          }
+        });
+      });
+      req.setTimeout(10_000, () => req.destroy(new Error('no reload event')));
+      req.on('error', reject);
+      req.end();
+    });
+    expect(message).toContain('data: reload');
+  });
+});
