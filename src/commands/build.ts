@@ -27,6 +27,8 @@ interface BuildFlags {
   cacheDir?: string;
   watch?: boolean;
   fsync?: boolean;
+  pdf?: boolean;
+  paper?: string;
 }
 
 function parseJobs(text: string | undefined): number | 'auto' {
@@ -95,7 +97,39 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
       `lineledger: built ${built} of ${report.sessions.length} sessions into ${out}${report.failed ? `; ${report.failed} failed` : ''}${detail}\n`,
     );
   }
+  if (opts.pdf) {
+    const pdfCode = await writePdfs(
+      out,
+      report.sessions,
+      opts.paper === 'letter' ? 'Letter' : 'A4',
+      opts.quiet === true,
+    );
+    if (pdfCode !== EXIT_OK) return pdfCode;
+  }
   return report.failed > 0 ? EXIT_PROBLEMS : EXIT_OK;
+}
+
+/** `--pdf`: print each built record through the system Chromium, or say how to get one. */
+async function writePdfs(
+  out: string,
+  sessions: readonly { ok: boolean; id: string | null }[],
+  paper: 'A4' | 'Letter',
+  quiet: boolean,
+): Promise<number> {
+  const { findChromium, printRecords, PDF_INSTALL_HINT } = await import('../pdf/printRecords.js');
+  const browser = findChromium();
+  if (!browser) {
+    process.stderr.write(`lineledger: no PDF written. ${PDF_INSTALL_HINT}\n`);
+    return EXIT_CANNOT_RUN;
+  }
+  const ids = sessions.filter((s) => s.ok && s.id !== null).map((s) => s.id as string);
+  const result = await printRecords(resolve(out), ids, paper, browser);
+  for (const p of result.problems) process.stderr.write(`lineledger: PDF of ${p}\n`);
+  if (!quiet)
+    process.stderr.write(
+      `lineledger: wrote ${result.written.length} PDF records (${paper}) with ${browser}\n`,
+    );
+  return result.problems.length > 0 ? EXIT_PROBLEMS : EXIT_OK;
 }
 
 /** Folders to watch, each with the names in it that matter (null: every session file). */
@@ -208,6 +242,8 @@ export function registerBuild(program: Command, done: (code: number) => void): v
     .option('--cache-dir <dir>', 'cache folder (default: .lineledger-cache/<out name> beside the output)')
     .option('--fsync', 'flush every file to disk before the swap, so the site also survives a power cut')
     .option('-w, --watch', 'rebuild when a session, the config or an own line list changes')
+    .option('--pdf', 'also print each record to sessions/<id>/record.pdf through the system Chromium')
+    .option('--paper <size>', 'paper for --pdf: a4 or letter', 'a4')
     .action(async (dir: string | undefined, opts: BuildFlags) =>
       done(await (opts.watch ? watchAndBuild(dir, opts) : buildOnce(dir, opts))),
     );

@@ -37,12 +37,13 @@ export function defaultConfig(): ProjectConfig {
   };
 }
 
-const validateConfig = compileValidator<ProjectConfigDocument>(ProjectConfigSchema);
+let configValidator: ReturnType<typeof compileValidator<ProjectConfigDocument>> | null = null;
 
 export function readProjectConfig(text: string, file: string): Outcome<ProjectConfig> {
   const parsed = parseYamlSource(text, file);
   if (!parsed.source) return { ok: false, diagnostics: parsed.diagnostics };
-  const { document, diagnostics } = validateWith(validateConfig, parsed.source, file);
+  configValidator ??= compileValidator<ProjectConfigDocument>(ProjectConfigSchema);
+  const { document, diagnostics } = validateWith(configValidator, parsed.source, file);
   if (!document) return { ok: false, diagnostics };
   const base = dirname(resolve(file));
   const at = (p: string | undefined) => (p === undefined ? null : resolve(base, p));

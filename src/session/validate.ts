@@ -12,7 +12,13 @@ import { type FieldPath, fieldName, type YamlSource } from './yamlSource.js';
 
 const ajv = new Ajv({ allErrors: true, verbose: true, strict: true, allowUnionTypes: true });
 ajv.addKeyword({ keyword: 'x-expect', schemaType: 'string' });
-const validateSession = ajv.compile<SessionDocument>(SessionSchema);
+// Compiled on first use: compiling costs about a fifth of a second, which commands that read
+// no session (lookup, preview, a cached rebuild) should not pay.
+let sessionValidator: ValidateFunction<SessionDocument> | null = null;
+function validateSession(): ValidateFunction<SessionDocument> {
+  sessionValidator ??= ajv.compile<SessionDocument>(SessionSchema);
+  return sessionValidator;
+}
 
 /** A validator for another document type (the project config), with the same diagnostics. */
 export function compileValidator<T>(schema: TSchema): ValidateFunction<T> {
@@ -38,7 +44,7 @@ export function validateDocument(
   source: YamlSource,
   file: string,
 ): { document: SessionDocument | null; diagnostics: Diagnostic[] } {
-  return validateWith(validateSession, source, file);
+  return validateWith(validateSession(), source, file);
 }
 
 export function validateWith<T>(

@@ -5,8 +5,14 @@
  * the same spec must always give the same bytes.
  */
 import { createHash } from 'node:crypto';
-import { parse, View } from 'vega';
-import { compile, type TopLevelSpec } from 'vega-lite';
+import type { TopLevelSpec } from 'vega-lite';
+
+/** vega and vega-lite take a quarter of a second to load: only a chart not in the cache needs them. */
+let chartLibraries: Promise<[typeof import('vega'), typeof import('vega-lite')]> | null = null;
+function loadChartLibraries() {
+  chartLibraries ??= Promise.all([import('vega'), import('vega-lite')]);
+  return chartLibraries;
+}
 
 export interface RenderedChart {
   svg: string;
@@ -23,8 +29,9 @@ export async function renderChart(spec: TopLevelSpec, cache?: ChartCache): Promi
   const hash = specHash(spec);
   const hit = cache?.get(hash);
   if (hit !== undefined) return { svg: hit, hash };
-  const vg = compile(spec).spec;
-  const view = new View(parse(vg), { renderer: 'none' });
+  const [vega, vegaLite] = await loadChartLibraries();
+  const vg = vegaLite.compile(spec).spec;
+  const view = new vega.View(vega.parse(vg), { renderer: 'none' });
   const raw = await view.toSVG();
   view.finalize();
   const svg = labelled(
