@@ -93,7 +93,10 @@ describe('identification', () => {
       catalog,
     );
     expect(out.ok).toBe(true);
-    if (out.ok)
-      expect(out.warnings.some((w) => w.code === 'unknown-candidate' && w.hint?.includes('Na I'))).toBe(true);
+    if (!out.ok) return;
+    const w = out.warnings.find((x) => x.code === 'unknown-candidate');
+    expect(w?.hint).toContain('Na I');
+    // It points at the misspelt name itself: line 3, inside the flow sequence.
+    expect(w).toMatchObject({ line: 3, col: 25, field: 'candidates.species[0]' });
   });
 });

@@ -1,6 +1,8 @@
 /** Which species a session is identified against: its own list and groups, or its source kind's defaults. */
+
 import type { Diagnostic } from '../diagnostics.js';
 import type { Catalog } from '../lines/types.js';
+import { positionOfField } from '../session/normalize.js';
 import { didYouMean } from '../session/suggest.js';
 import type { Session } from '../session/types.js';
 
@@ -19,8 +21,7 @@ export function candidateSpecies(
   const warn = (field: string, message: string, hint: string) =>
     warnings.push({
       file: session.file,
-      line: 1,
-      col: 1,
+      ...positionOfField(session, field),
       severity: 'warning',
       code: 'unknown-candidate',
       field,

@@ -2,12 +2,14 @@
  * The identify stage: reduced lines + catalog → ranked candidates, an explanation and a
  * line-by-line assignment. Pure.
  */
+
 import { FWHM_PER_SIGMA } from '../constants.js';
 import type { Diagnostic } from '../diagnostics.js';
 import type { Catalog } from '../lines/types.js';
 import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
 import { redshiftFromVelocity, residualVelocity_km_s } from '../reduce/doppler.js';
 import type { MeasuredLine, Reduction } from '../reduce/types.js';
+import { positionOfField } from '../session/normalize.js';
 import { candidateSpecies, isTelluric } from './candidates.js';
 import { type EvidenceContext, evaluateSpecies } from './evidence.js';
 import { posterior, selectMixture } from './explain.js';
@@ -41,8 +43,7 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
   const note = (code: string, field: string, message: string, hint: string) =>
     warnings.push({
       file: reduction.session.file,
-      line: 1,
-      col: 1,
+      ...positionOfField(reduction.session, field),
       severity: 'warning',
       code,
       field,
@@ -89,8 +90,7 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
       if (searched.found.warning) {
         warnings.push({
           file: reduction.session.file,
-          line: 1,
-          col: 1,
+          ...positionOfField(reduction.session, 'shift'),
           severity: 'warning',
           code: 'shift-uncertain',
           field: 'shift',

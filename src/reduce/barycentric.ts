@@ -11,9 +11,11 @@
  * moves the projection by far less than 1 m/s. Accuracy is at the few-m/s level, well inside
  * what a grating measurement can resolve.
  */
+
 import { BaryState, Body, MakeTime, Observer, ObserverState } from 'astronomy-engine';
 import { KM_PER_AU, RAD_PER_DEG, SECONDS_PER_DAY } from '../constants.js';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
+import { positionOfField } from '../session/normalize.js';
 import type { Session } from '../session/types.js';
 import type { BarycentricCorrection } from './types.js';
 
@@ -73,8 +75,7 @@ export function sessionBarycentricCorrection(session: Session): Outcome<Barycent
   const problem = (field: string, message: string, hint: string) =>
     problems.push({
       file: session.file,
-      line: 1,
-      col: 1,
+      ...positionOfField(session, field),
       severity: 'error',
       code: 'barycentric-input',
       field,

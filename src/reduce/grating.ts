@@ -10,8 +10,10 @@
  * positive on the source's side of the normal, and at normal incidence both types reduce to
  * m·λ = d·sin θ. Positive orders lie on the side of positive angles.
  */
+
 import { RAD_PER_DEG } from '../constants.js';
 import type { Diagnostic } from '../diagnostics.js';
+import { positionOfField } from '../session/normalize.js';
 import type { RawLine, Session } from '../session/types.js';
 
 export interface GratingSetup {
@@ -98,7 +100,7 @@ export function measurementDiagnostic(
   hint: string,
   severity: Diagnostic['severity'] = 'error',
 ): Diagnostic {
-  return { file: session.file, line: 1, col: 1, severity, code, field, message, hint };
+  return { file: session.file, ...positionOfField(session, field), severity, code, field, message, hint };
 }
 
 /** Checks every grating method needs before it reads a line; returns the setup or diagnostics. */

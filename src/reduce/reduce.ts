@@ -2,7 +2,9 @@
  * The reduce stage: raw readings → vacuum, rest-frame wavelengths with uncertainties.
  * Pure: a Session in, a Reduction (or diagnostics) out.
  */
+
 import type { Diagnostic, Outcome } from '../diagnostics.js';
+import { positionOfField } from '../session/normalize.js';
 import type { MeasurementMethod, Session } from '../session/types.js';
 import { airToVacuum, vacuumPerAirSlope, vacuumToAir } from './airVacuum.js';
 import { combineReadings } from './combine.js';
@@ -31,8 +33,7 @@ export function reduceSession(session: Session): Outcome<Reduction> {
       diagnostics: [
         {
           file: session.file,
-          line: 1,
-          col: 1,
+          ...positionOfField(session, 'measurement.method'),
           severity: 'error',
           code: 'method-unsupported',
           field: 'measurement.method',

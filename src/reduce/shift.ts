@@ -9,7 +9,9 @@
  * subtraction to first order (the difference is below 1 m/s for stars). The AppliedShift then
  * carries the topocentric z and velocity that were actually removed, and the correction itself.
  */
+
 import type { Diagnostic, Outcome } from '../diagnostics.js';
+import { positionOfField } from '../session/normalize.js';
 import type { Session } from '../session/types.js';
 import { sessionBarycentricCorrection } from './barycentric.js';
 import { redshiftFromVelocity, redshiftPerVelocity, velocityFromRedshift } from './doppler.js';
@@ -83,8 +85,7 @@ export function resolveKnownShift(session: Session): Outcome<AppliedShift | null
       if (correction) {
         warnings.push({
           file: session.file,
-          line: 1,
-          col: 1,
+          ...positionOfField(session, 'shift.barycentric'),
           severity: 'warning',
           code: 'barycentric-unused',
           field: 'shift.barycentric',

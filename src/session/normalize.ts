@@ -3,7 +3,7 @@
  * which position fields each measurement method needs, mixed methods, impossible values.
  */
 import { createHash } from 'node:crypto';
-import type { Diagnostic } from '../diagnostics.js';
+import type { Diagnostic, SourcePosition } from '../diagnostics.js';
 import { parseAngleDeg, parseDeclinationDeg, parseRightAscensionDeg } from './angles.js';
 import { INTENSITY_WORDS, type LineDocument, type SessionDocument } from './schema.js';
 import type {
@@ -201,6 +201,7 @@ export function normalizeSession(
     lines,
     notes: doc.notes ?? '',
     input_sha256: createHash('sha256').update(bytes).digest('hex'),
+    field_positions: fieldPositions(doc, source),
   };
   return { session, diagnostics };
 }
@@ -464,4 +465,33 @@ function searchRange(
   const [a, b] = range as [number, number];
   if (!(a < b)) problem(path, 'invalid-value', 'a search range is [from, to] with from < to');
   return make(a, b);
+}
+
+/** Positions of every field but the lines' own and the notes' text (those are found otherwise). */
+function fieldPositions(doc: SessionDocument, source: YamlSource): Record<string, SourcePosition> {
+  const out: Record<string, SourcePosition> = {};
+  const walk = (value: unknown, path: (string | number)[]) => {
+    if (path.length > 0) out[fieldName(path)] = source.positionOf(path);
+    if (path[0] === 'lines' && path.length >= 1) return;
+    if (Array.isArray(value)) {
+      for (let i = 0; i < value.length; i++) walk(value[i], [...path, i]);
+    } else if (value !== null && typeof value === 'object') {
+      for (const [k, v] of Object.entries(value)) walk(v, [...path, k]);
+    }
+  };
+  walk(doc, []);
+  return out;
+}
+
+/** The position of a field, or of its nearest ancestor that is in the file (1:1 when none is). */
+export function positionOfField(session: Pick<Session, 'field_positions'>, field: string): SourcePosition {
+  let f = field;
+  while (f) {
+    const hit = session.field_positions[f];
+    if (hit) return hit;
+    const cut = Math.max(f.lastIndexOf('.'), f.lastIndexOf('['));
+    if (cut <= 0) break;
+    f = f.slice(0, cut);
+  }
+  return { line: 1, col: 1 };
 }

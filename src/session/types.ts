@@ -102,4 +102,9 @@ export interface Session {
   notes: string;
   /** Hex SHA-256 of the file's bytes, for provenance. */
   input_sha256: string;
+  /**
+   * Where each field outside `lines` sits in the file (keys like `measurement.grating.lines_per_mm`,
+   * `candidates.species[1]`), so later stages can point their diagnostics at it.
+   */
+  field_positions: Record<string, SourcePosition>;
 }

@@ -1,6 +1,8 @@
 /** Method `wavelength`: the instrument already gives wavelengths; only units change. */
+
 import { FWHM_PER_SIGMA, NM_PER_ANGSTROM, NM_PER_MICROMETRE } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
+import { positionOfField } from '../../session/normalize.js';
 import type { Session, WavelengthUnit } from '../../session/types.js';
 import type { MethodResult, ObservedReading } from '../types.js';
 
@@ -23,8 +25,7 @@ export function reduceWavelengths(session: Session): MethodResult {
   if (fallback.assumed) {
     diagnostics.push({
       file: session.file,
-      line: 1,
-      col: 1,
+      ...positionOfField(session, 'measurement.sigma'),
       severity: 'warning',
       code: 'assumed-sigma',
       field: 'measurement.sigma',
