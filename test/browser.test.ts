@@ -4,7 +4,9 @@
  * SVG with marks, axe-core finds no serious accessibility problem, print-to-PDF gives pages.
  * Screenshots go to test-artifacts/.
  */
-import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { type Browser, chromium } from 'playwright-core';
@@ -79,6 +81,36 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     expect(violations).toEqual([]);
     const shotName = page.replace(/\//g, '_').replace('.html', '.png');
     await tab.screenshot({ path: join(ARTIFACTS, shotName), fullPage: true });
+    await tab.close();
+  });
+
+  it('runs no script from hostile notes, titles or labels', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'll-hostile-'));
+    writeFileSync(
+      join(dir, 'hostile.yaml'),
+      'lineledger: 1\ntitle: "<script>alert(1)</script> & \\"q\\""\nlines:\n  - { wavelength: 589.0, label: "<img src=x onerror=alert(2)>" }\n' +
+        'notes: |\n  <script>alert(3)</script>\n\n  <img src=x onerror=alert(4)> [x](javascript:alert(5))\n\n  <iframe src="https://example.org"></iframe>\n\n  <svg onload=alert(6)></svg>\n',
+    );
+    const out = join(dir, 'site');
+    const r = spawnSync(
+      process.execPath,
+      [resolve('dist/cli.js'), 'build', dir, '--out', out, '--no-cache'],
+      { encoding: 'utf8' },
+    );
+    expect(r.status, r.stderr).toBe(0);
+    const tab = await browser.newPage();
+    const dialogs: string[] = [];
+    const requests: string[] = [];
+    tab.on('dialog', async (d) => {
+      dialogs.push(d.message());
+      await d.dismiss();
+    });
+    tab.on('request', (q) => requests.push(q.url()));
+    await tab.goto(pathToFileURL(join(out, 'sessions', 'hostile', 'index.html')).href);
+    await tab.waitForTimeout(300);
+    expect(dialogs).toEqual([]);
+    expect(await tab.$$eval('script, iframe', (els) => els.length)).toBe(0);
+    expect(requests.every((u) => u.startsWith('file://'))).toBe(true);
     await tab.close();
   });
 
