@@ -94,7 +94,7 @@ export function failedRow(
 ): IndexRow {
   return {
     sortKey: headline?.date ?? '',
-    date: headline?.date ?? null,
+    date: headline?.date?.slice(0, 10) ?? null,
     title: headline?.title ?? fileName,
     file: fileName,
     href: null,
@@ -160,7 +160,8 @@ export async function renderSessionPart(
     overview: identification.explanation.species.map((s) => ({ session: session.id, species: s })),
     row: {
       sortKey: session.date ?? '',
-      date: session.date,
+      // The day is enough in the list; the record keeps the full date-time.
+      date: session.date?.slice(0, 10) ?? null,
       title: session.title,
       file: fileName,
       href: `${dir}/index.html`,
