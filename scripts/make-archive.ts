@@ -4,23 +4,13 @@
  * from a fixed seed (same N and seed ⇒ same files).
  *   tsx scripts/make-archive.ts OUT_DIR [N] [SEED]
  */
+
 import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { mulberry32 } from '../test/helpers/random.js';
 
 const DEMO = resolve(dirname(fileURLToPath(import.meta.url)), '..', 'data', 'sessions');
-
-/** mulberry32: a small, well-mixed 32-bit generator; enough for test data. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function vary(text: string, n: number, next: () => number): string {
   const tag = `a${String(n).padStart(4, '0')}`;
@@ -52,7 +42,7 @@ export function makeArchive(outDir: string, count = 500, seed = 20260314): strin
     .filter((n) => n.endsWith('.yaml'))
     .sort()
     .map((n) => ({ name: n, text: readFileSync(join(DEMO, n), 'utf8') }));
-  const next = random(seed);
+  const next = mulberry32(seed);
   mkdirSync(outDir, { recursive: true });
   const written: string[] = [];
   for (let n = 0; n < count; n++) {

@@ -3,26 +3,14 @@
  * benchmark. Invented measurements only; the reference lines they are drawn from are the
  * catalog's. Each session knows its truth (species, and z when shifted).
  */
+
 import { windowRange } from '../src/lines/search.js';
 import type { Catalog } from '../src/lines/types.js';
 import { airToVacuum, vacuumToAir } from '../src/reduce/airVacuum.js';
+import { gaussianDeviate, mulberry32 } from '../test/helpers/random.js';
 
-/** mulberry32: a small, well-known 32-bit PRNG; enough for reproducible benchmarks. */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-export function gauss(rand: () => number): number {
-  const u = Math.max(rand(), 1e-12);
-  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
-}
+export const rng = mulberry32;
+export const gauss = gaussianDeviate;
 
 export interface SyntheticSession {
   yaml: string;

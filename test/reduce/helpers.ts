@@ -51,26 +51,7 @@ export function expectPositioned(diagnostics: Diagnostic[], code: string, field?
   return d;
 }
 
-/** Seeded PRNG (mulberry32) so the Monte-Carlo checks are reproducible. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-/** Standard normal deviates by the Box–Muller transform. */
-export function gaussian(uniform: () => number): () => number {
-  return () => {
-    const u = 1 - uniform(); // (0, 1]: log(0) would be −∞
-    const v = uniform();
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-  };
-}
+export { gaussian, mulberry32 } from '../helpers/random.js';
 
 export function standardDeviation(values: readonly number[]): number {
   const mean = values.reduce((a, b) => a + b, 0) / values.length;
