@@ -212,6 +212,7 @@ export async function renderIndexFiles(
       failed: count('failed'),
     },
     overview: overviewChartSvg ? { svg: overviewChartSvg, caption: overviewCaption } : null,
+    bySpecies: sessionsBySpecies(rows, overview),
     generalCaution: GENERAL_CAUTION,
   });
   return [
@@ -240,4 +241,23 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
   }
   files.push(...(await renderIndexFiles(rows, overview, ctx, cache)));
   return sortFiles(files);
+}
+
+/** The overview chart's numbers as a list: each species with the sessions that found it. */
+function sessionsBySpecies(rows: readonly IndexRow[], overview: readonly OverviewEntry[]) {
+  const byHref = new Map(rows.filter((r) => r.href).map((r) => [r.href, r]));
+  const groups = new Map<string, { title: string; href: string }[]>();
+  for (const o of overview) {
+    const row = byHref.get(`sessions/${o.session}/index.html`);
+    if (!row?.href) continue;
+    const list = groups.get(o.species) ?? [];
+    list.push({ title: row.title, href: row.href });
+    groups.set(o.species, list);
+  }
+  return [...groups.entries()]
+    .sort((a, b) => a[0].localeCompare(b[0]))
+    .map(([species, sessions]) => ({
+      species,
+      sessions: sessions.sort((x, y) => x.title.localeCompare(y.title)),
+    }));
 }
