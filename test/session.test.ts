@@ -19,6 +19,22 @@ describe('reading sessions', () => {
     expect(r.value.lines[0]?.kind).toBe('emission');
   });
 
+  it('reads source.class and lines_listed, and rejects a class of another kind at its position', () => {
+    const r = readSessionText(
+      'lineledger: 1\nsource: { kind: nebula, class: planetary-nebula }\nlines_listed: selection\nlines:\n  - wavelength: 500.7\n',
+      'pn.yaml',
+    );
+    if (!r.ok) throw new Error('should read');
+    expect(r.value.source.class).toBe('planetary-nebula');
+    expect(r.value.lines_listed).toBe('selection');
+    const [d] = problems(
+      'lineledger: 1\nsource:\n  kind: lamp\n  class: quasar\nlines:\n  - wavelength: 500.7\n',
+    );
+    expect(d?.code).toBe('invalid-value');
+    expect(d?.line).toBe(4);
+    expect(d?.message).toContain('kind galaxy');
+  });
+
   it('maps intensity words to an increasing scale', () => {
     const r = readSessionText(
       'lineledger: 1\nlines:\n  - { wavelength: 500, intensity: very-weak }\n  - { wavelength: 501, intensity: very-strong }\n  - { wavelength: 502, intensity: 7.5 }\n',

@@ -5,7 +5,7 @@
 import { createHash } from 'node:crypto';
 import type { Diagnostic, SourcePosition } from '../diagnostics.js';
 import { parseAngleDeg, parseDeclinationDeg, parseRightAscensionDeg } from './angles.js';
-import { INTENSITY_WORDS, type LineDocument, type SessionDocument } from './schema.js';
+import { INTENSITY_WORDS, type LineDocument, type SessionDocument, SOURCE_CLASS_KIND } from './schema.js';
 import type {
   BarycentricRequest,
   GratingSpec,
@@ -60,6 +60,16 @@ export function normalizeSession(
       hint,
     });
   };
+
+  const sourceClass = doc.source?.class;
+  if (sourceClass !== undefined && doc.source && SOURCE_CLASS_KIND[sourceClass] !== doc.source.kind) {
+    problem(
+      ['source', 'class'],
+      'invalid-value',
+      `class ${sourceClass} is a class of kind ${SOURCE_CLASS_KIND[sourceClass]}, not ${doc.source.kind}`,
+      `use kind: ${SOURCE_CLASS_KIND[sourceClass]}, or leave class out`,
+    );
+  }
 
   const m = doc.measurement ?? {};
   const method: MeasurementMethod = m.method ?? 'wavelength';
@@ -177,7 +187,12 @@ export function normalizeSession(
           elevation_m: doc.site.elevation_m ?? null,
         }
       : null,
-    source: { kind: doc.source?.kind ?? 'unknown', name: doc.source?.name ?? null },
+    source: {
+      kind: doc.source?.kind ?? 'unknown',
+      class: doc.source?.class ?? null,
+      name: doc.source?.name ?? null,
+    },
+    lines_listed: doc.lines_listed ?? null,
     instrument: {
       description: doc.instrument?.description ?? defaults?.description ?? null,
       // A session's own resolution (either form) wins over both forms of the default.

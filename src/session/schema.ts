@@ -20,6 +20,39 @@ export const SOURCE_KINDS = [
   'other',
   'unknown',
 ] as const;
+/**
+ * Finer classes of source an observer may name (`source.class`). They select priors and line
+ * strengths in identification; each belongs to one kind (SOURCE_CLASS_KIND).
+ */
+export const SOURCE_CLASS_KIND = {
+  'discharge-tube': 'lamp',
+  fluorescent: 'lamp',
+  led: 'lamp',
+  'street-light': 'lamp',
+  incandescent: 'lamp',
+  'flame-test': 'flame',
+  'gas-flame': 'flame',
+  sun: 'star',
+  'hot-star': 'star',
+  'cool-star': 'star',
+  'wolf-rayet': 'star',
+  nova: 'star',
+  supernova: 'star',
+  'planetary-nebula': 'nebula',
+  'h-ii-region': 'nebula',
+  'supernova-remnant': 'nebula',
+  quasar: 'galaxy',
+  seyfert: 'galaxy',
+  starburst: 'galaxy',
+  daylight: 'sky',
+  aurora: 'sky',
+  airglow: 'sky',
+  'light-pollution': 'sky',
+} as const;
+export type SourceClass = keyof typeof SOURCE_CLASS_KIND;
+export const SOURCE_CLASSES = Object.keys(SOURCE_CLASS_KIND) as SourceClass[];
+/** Whether the session's lines are every line that was seen, or a chosen selection. */
+export const LINES_LISTED = ['all-seen', 'selection'] as const;
 export const METHODS = ['wavelength', 'grating-angle', 'screen', 'pixel'] as const;
 export const WAVELENGTH_UNITS = ['nm', 'angstrom', 'um'] as const;
 export const INTENSITY_WORDS = ['very-weak', 'weak', 'medium', 'strong', 'very-strong'] as const;
@@ -66,6 +99,9 @@ const Site = Type.Object(
 const Source = Type.Object(
   {
     kind: words(SOURCE_KINDS, 'What kind of light source was measured'),
+    class: Type.Optional(
+      words(SOURCE_CLASSES, 'A finer class of source (for example fluorescent, planetary-nebula, cool-star)'),
+    ),
     name: Type.Optional(Type.String({ maxLength: 200 })),
   },
   { ...Strict, description: 'The light source' },
@@ -240,6 +276,9 @@ export const SessionSchema = Type.Object(
     candidates: Type.Optional(Candidates),
     shift: Type.Optional(Shift),
     measurement: Type.Optional(Measurement),
+    lines_listed: Type.Optional(
+      words(LINES_LISTED, 'Whether the lines below are every line seen (all-seen) or a selection'),
+    ),
     lines: Type.Array(Line, {
       minItems: 1,
       maxItems: SESSION_LIMITS.maxLines,

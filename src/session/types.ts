@@ -1,8 +1,18 @@
 /** The typed, normalised session that every later stage receives. */
 import type { SourcePosition } from '../diagnostics.js';
-import type { LINE_KINDS, METHODS, SOURCE_KINDS, WAVELENGTH_UNITS } from './schema.js';
+import type {
+  LINE_KINDS,
+  LINES_LISTED,
+  METHODS,
+  SOURCE_KINDS,
+  SourceClass,
+  WAVELENGTH_UNITS,
+} from './schema.js';
+
+export type { SourceClass } from './schema.js';
 
 export type SourceKind = (typeof SOURCE_KINDS)[number];
+export type LinesListed = (typeof LINES_LISTED)[number];
 export type MeasurementMethod = (typeof METHODS)[number];
 export type WavelengthUnit = (typeof WAVELENGTH_UNITS)[number];
 export type LineKind = (typeof LINE_KINDS)[number];
@@ -91,7 +101,10 @@ export interface Session {
   date: string | null;
   observer: string | null;
   site: { name: string | null; lat: number | null; lon: number | null; elevation_m: number | null } | null;
-  source: { kind: SourceKind; name: string | null };
+  /** `class` is the observer's finer class of source, if named (it fits `kind`, checked on reading). */
+  source: { kind: SourceKind; class: SourceClass | null; name: string | null };
+  /** What the observer said of the list: every line seen, a selection, or nothing (null). */
+  lines_listed: LinesListed | null;
   instrument: InstrumentSpec;
   medium: Medium;
   candidates: { groups: string[]; species: string[]; exclude: string[] };
