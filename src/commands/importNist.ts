@@ -1,4 +1,4 @@
-/** `lineledger import-nist FILE --species "Fe I" --out lines.tsv`: an ASD export → catalog TSV. */
+/** `lineledger import-nist FILE --species "Fe I" --out lines.tsv`: an ASD export (delimited or ASCII table) → catalog TSV. */
 import { writeFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { convertNistExport, type ExportMedium } from '../lines/nistImport.js';
@@ -47,7 +47,9 @@ function importNist(file: string, opts: ImportFlags): number {
 export function registerImportNist(program: Command, done: (code: number) => void): void {
   program
     .command('import-nist')
-    .description('convert a NIST ASD lines-form export (tab-delimited or CSV) into the catalog TSV format')
+    .description(
+      'convert a NIST ASD lines-form export (tab-delimited, CSV or ASCII table) into the catalog TSV format',
+    )
     .argument('<file>', 'the exported text file')
     .option('--species <name>', 'the spectrum to keep, e.g. "Fe I" (default: every spectrum of the export)')
     .option('--medium <air|vacuum>', 'medium of wavelength columns whose names do not say')

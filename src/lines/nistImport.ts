@@ -1,11 +1,13 @@
 /**
- * A NIST ASD "lines" form export (tab-delimited or CSV) → rows in the catalog's TSV format
- * (src/lines/parse.ts). Pure: the export's text comes in; the TSV text, the rows and the
- * problems (as Diagnostic values with file:line:col) go out. docs/catalog.md describes the rules.
+ * A NIST ASD "lines" form export (tab-delimited, CSV, or the fixed-width ASCII table) → rows in
+ * the catalog's TSV format (src/lines/parse.ts). Pure: the export's text comes in; the TSV text,
+ * the rows and the problems (as Diagnostic values with file:line:col) go out. docs/catalog.md
+ * describes the rules.
  */
 import { NM_PER_ANGSTROM, NM_PER_MICROMETRE } from '../constants.js';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
+import { asciiTableRows, isAsciiTable, type TableRow } from './nistAscii.js';
 import { CATALOG_COLUMNS } from './parse.js';
 
 export type ExportMedium = 'air' | 'vacuum';
@@ -28,6 +30,8 @@ export interface ImportedRow {
   flags: string[];
   /** Which wavelength was used: observed or Ritz (computed from the energy levels). */
   basis: 'observed' | 'ritz';
+  /** The row's Ritz wavelength (vacuum, nm), if it has one: tells a blend's components apart. */
+  ritz_vacuum_nm: number | null;
   /** Line of the export the row came from. */
   line: number;
   /** Decimals (in nm) the row is written with: the source's precision, at least 4. */
@@ -40,19 +44,41 @@ export interface NistImport {
   tsv: string;
 }
 
-/** Intensity descriptors we carry into catalog flags; the others are dropped (docs/catalog.md). */
-const FLAG_FOR_DESCRIPTOR: Readonly<Record<string, string>> = {
+/**
+ * Intensity descriptors carried into catalog flags (ASD's legend of Rel. Int. codes; the words
+ * are the catalog's, docs/catalog.md). The others are dropped with a warning.
+ */
+export const FLAG_FOR_DESCRIPTOR: Readonly<Record<string, string>> = {
   P: 'persistent',
   bl: 'blend',
   f: 'forbidden',
   b: 'band-head',
+  d: 'diffuse',
+  h: 'hazy',
+  H: 'very-hazy',
+  w: 'wide',
+  r: 'self-reversed',
+  '?': 'questionable',
+  '*': 'shared-intensity',
+  c: 'complex',
+  D: 'double',
+  l: 'shaded-red',
+  s: 'shaded-violet',
+  m: 'masked',
+  p: 'perturbed',
+  q: 'asymmetric',
+  u: 'unresolved',
+  i: 'uncertain-identification',
+  t: 'tentative-classification',
+  a: 'absorption',
+  hfs: 'hyperfine-structure',
 };
 
-/** ASD `Type` column: anything but an electric-dipole (E1, or blank) transition is forbidden. */
-const ALLOWED_TYPES = new Set(['', 'E1']);
+/** ASD `Type` column values of forbidden transitions (magnetic dipole, electric quadrupole, …). */
+const FORBIDDEN_TYPES = new Set(['M1', 'E2', 'M2', 'E3', 'M3', 'M1+E2', 'HF']);
 
-/** Descriptors of ASD intensities, longest first so "bl" and "hfs" win over "b" and "h". */
-const DESCRIPTORS = ['hfs', 'bl', ...'*:-?abBcdDEfgGHhijlmpPqrstuwx'];
+/** Descriptors of ASD intensities, longest first so "bl", "aff" and "hfs" win over "b", "a", "h". */
+const DESCRIPTORS = ['hfs', 'aff', 'bl', ...'*:-?abBcdDEfgGHhijlmpPqrstuwx'];
 
 const ROMAN: readonly [number, string][] = [
   [1000, 'M'],
@@ -137,6 +163,22 @@ function splitTabs(text: string): { cells: string[]; starts: number[] } {
     at += c.length + 1;
   }
   return { cells, starts };
+}
+
+/** Tab-delimited or CSV text (whichever the first line uses) → rows of cells. */
+function delimitedRows(lines: readonly string[]): TableRow[] {
+  const firstLine = lines.find((l) => l.trim() !== '') ?? '';
+  const split = firstLine.includes('\t') ? splitTabs : splitCsv;
+  const out: TableRow[] = [];
+  lines.forEach((raw, i) => {
+    if (raw.trim() !== '') out.push({ line: i + 1, ...split(raw) });
+  });
+  return out;
+}
+
+function ritzVacuum(r: { w: WavelengthColumn; value: number }, fallback: ExportMedium | null): number {
+  const nm = r.value * r.w.nm_per_unit;
+  return (r.w.medium ?? fallback) === 'air' ? airToVacuum(nm) : nm;
 }
 
 interface WavelengthColumn {
@@ -231,7 +273,12 @@ export interface ParsedIntensity {
  * in `dropped` so the caller can say so.
  */
 export function parseIntensity(text: string): ParsedIntensity {
-  const cell = text.replace(/[()[\]]/g, '').trim();
+  // "bl(Fe I)", "blFe II*", "aff(Fe I)": blended with / affected by a line of another spectrum;
+  // the spectrum's name goes (the flag stays). Commas separate descriptors ("d,bl").
+  const cell = text
+    .replace(/(bl|aff)(?:\(([^)]*)\)|[A-Z][a-z](?:\s+[IVX]+)?|[A-Z]\s+[IVX]+)/g, '$1')
+    .replace(/[()[\],]/g, '')
+    .trim();
   const m = /^(\d+(?:\.\d+)?)?(.*)$/.exec(cell);
   const number = m?.[1];
   let rest = (m?.[2] ?? '').replace(/\s+/g, '');
@@ -276,18 +323,16 @@ export function convertNistExport(
     });
 
   const lines = text.replace(/^\uFEFF/, '').split(/\r?\n/);
-  const firstLine = lines.find((l) => l.trim() !== '') ?? '';
-  const split = firstLine.includes('\t') ? splitTabs : splitCsv;
+  const ascii = isAsciiTable(lines);
   let columns: Columns | null = null;
   const rows: ImportedRow[] = [];
   const droppedSeen = new Map<string, number>();
   const spectraSeen = new Set<string>();
   let headerSeen = false;
 
-  lines.forEach((raw, i) => {
-    const lineNo = i + 1;
-    if (raw.trim() === '') return;
-    const { cells: rawCells, starts } = split(raw);
+  for (const { line: lineNo, cells: rawCells, starts } of ascii
+    ? asciiTableRows(lines)
+    : delimitedRows(lines)) {
     const cells = rawCells.map(cleanCell);
     const col = (k: number) => (starts[k] ?? 0) + 1;
     const header = readHeader(cells);
@@ -326,10 +371,10 @@ export function convertNistExport(
             'leave --medium out; the column names decide',
           );
       }
-      return;
+      continue;
     }
     const c = columns as Columns | null;
-    if (c === null) return; // text above the first header (titles, notes)
+    if (c === null) continue; // text above the first header (titles, notes)
 
     let species = options.species;
     if (c.element >= 0 && c.spNum >= 0) {
@@ -337,11 +382,11 @@ export function convertNistExport(
       const sp = Number(cells[c.spNum]);
       if (element === '' || !Number.isInteger(sp) || sp < 1) {
         say(warnings, lineNo, col(c.element), 'element', 'row without a usable element/sp_num; skipped');
-        return;
+        continue;
       }
       const own = `${element} ${romanNumeral(sp)}`;
       spectraSeen.add(own);
-      if (species !== null && own !== species) return;
+      if (species !== null && own !== species) continue;
       species = own;
     }
     if (species === null) {
@@ -354,7 +399,7 @@ export function convertNistExport(
         'give --species, e.g. "Fe I"',
       );
       columns = null;
-      return;
+      continue;
     }
 
     const pick = (w: WavelengthColumn | null) => {
@@ -367,10 +412,11 @@ export function convertNistExport(
     // Observed before Ritz: the observed wavelength is what a lamp shows, with the stated
     // measurement uncertainty; the Ritz value fills in lines only computed from level energies.
     const obs = pick(c.observed);
-    const chosen = obs ?? pick(c.ritz);
+    const ritz = pick(c.ritz);
+    const chosen = obs ?? ritz;
     if (!chosen) {
       say(warnings, lineNo, 1, 'wavelength', 'row without an observed or Ritz wavelength; skipped');
-      return;
+      continue;
     }
     const medium = chosen.w.medium ?? (options.medium as ExportMedium);
     const value_nm = chosen.value * chosen.w.nm_per_unit;
@@ -399,7 +445,7 @@ export function convertNistExport(
     }
     const flags = [...parsed.flags];
     const type = c.type >= 0 ? (cells[c.type] ?? '') : '';
-    if (!ALLOWED_TYPES.has(type) && !flags.includes('forbidden')) flags.push('forbidden');
+    if (FORBIDDEN_TYPES.has(type) && !flags.includes('forbidden')) flags.push('forbidden');
     for (const d of parsed.dropped) droppedSeen.set(d, (droppedSeen.get(d) ?? 0) + 1);
 
     rows.push({
@@ -410,10 +456,11 @@ export function convertNistExport(
       intensity,
       flags,
       basis: obs ? 'observed' : 'ritz',
+      ritz_vacuum_nm: ritz === null ? null : ritzVacuum(ritz, options.medium),
       line: lineNo,
       decimals: Math.max(places, 4),
     });
-  });
+  }
 
   if (!headerSeen)
     say(
@@ -422,7 +469,7 @@ export function convertNistExport(
       1,
       'header',
       'no header row with obs_wl_… or ritz_wl_… columns found',
-      'export from the ASD lines form as tab-delimited or CSV text',
+      'export from the ASD lines form as tab-delimited, CSV or ASCII text',
     );
   if (options.species !== null && spectraSeen.size > 0 && !spectraSeen.has(options.species))
     say(
@@ -439,13 +486,15 @@ export function convertNistExport(
     return { ok: false, diagnostics };
   }
 
-  const merged = mergeDuplicates(rows, (r, kept) =>
+  const merged = mergeDuplicates(rows, (r, kept, components) =>
     say(
       warnings,
       r.line,
       1,
       'wavelength',
-      `same ${r.species} wavelength as line ${kept.line} (a multiply classified line); kept once`,
+      components
+        ? `same observed ${r.species} wavelength as line ${kept.line}, another Ritz value (a blend resolved into components); kept once, flagged blend`
+        : `same ${r.species} wavelength as line ${kept.line} (a multiply classified line); kept once`,
     ),
   );
   for (const [d, n] of [...droppedSeen].sort()) {
@@ -458,13 +507,25 @@ export function convertNistExport(
       'see docs/catalog.md',
     );
   }
-  return { ok: true, value: { rows: merged, tsv: writeTsv(merged, file, options.sourceKey) }, warnings };
+  return {
+    ok: true,
+    value: {
+      rows: merged,
+      tsv: writeTsv(merged, file, options.sourceKey, ascii ? 'ASCII table' : 'delimited text'),
+    },
+    warnings,
+  };
 }
 
-/** Same species and wavelength more than once (ASD lists a line once per classification). */
+/**
+ * Same species and wavelength more than once: ASD lists a line once per classification, and an
+ * observed blend once per component (each with its own Ritz wavelength, all sharing the one
+ * observed wavelength). Kept once, with the highest intensity and the union of flags; when the
+ * rows' Ritz wavelengths differ, the line is a blend of those components and is flagged so.
+ */
 function mergeDuplicates(
   rows: ImportedRow[],
-  warn: (row: ImportedRow, kept: ImportedRow) => void,
+  warn: (row: ImportedRow, kept: ImportedRow, components: boolean) => void,
 ): ImportedRow[] {
   const sorted = [...rows].sort((a, b) => a.species.localeCompare(b.species) || a.vacuum_nm - b.vacuum_nm);
   const out: ImportedRow[] = [];
@@ -476,9 +537,15 @@ function mergeDuplicates(
       last.species === r.species &&
       decimal(last.vacuum_nm, digits) === decimal(r.vacuum_nm, digits)
     ) {
-      warn(r, last);
+      const components =
+        r.basis === 'observed' &&
+        last.ritz_vacuum_nm !== null &&
+        r.ritz_vacuum_nm !== null &&
+        decimal(last.ritz_vacuum_nm, digits) !== decimal(r.ritz_vacuum_nm, digits);
+      warn(r, last, components);
       last.intensity = Math.max(last.intensity, r.intensity);
       for (const f of r.flags) if (!last.flags.includes(f)) last.flags.push(f);
+      if (components && !last.flags.includes('blend')) last.flags.push('blend');
       continue;
     }
     out.push({ ...r, flags: [...r.flags] });
@@ -486,11 +553,11 @@ function mergeDuplicates(
   return out;
 }
 
-function writeTsv(rows: readonly ImportedRow[], file: string, sourceKey: string): string {
+function writeTsv(rows: readonly ImportedRow[], file: string, sourceKey: string, format: string): string {
   const name = file.split(/[\\/]/).pop() ?? file;
   const ritz = rows.filter((r) => r.basis === 'ritz').length;
   const out = [
-    `# Converted by lineledger import-nist from ${name} (a NIST ASD lines-form export): ${rows.length} lines,`,
+    `# Converted by lineledger import-nist from ${name} (a NIST ASD lines-form export, ${format}): ${rows.length} lines,`,
     `# ${rows.length - ritz} observed and ${ritz} Ritz wavelengths (observed preferred). The medium not in the export is`,
     '# COMPUTED with the IAU formula (Morton 2000, ApJS 130, 403); air_nm is "-" below 200 nm.',
     CATALOG_COLUMNS.join('\t'),

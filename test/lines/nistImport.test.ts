@@ -164,12 +164,110 @@ describe('NIST ASD import: the rules', () => {
     expect(parseIntensity('1000P')).toEqual({ value: 1000, flags: ['persistent'], dropped: [] });
     expect(parseIntensity('500bl')).toEqual({ value: 500, flags: ['blend'], dropped: [] });
     expect(parseIntensity('(30)')).toEqual({ value: 30, flags: [], dropped: [] });
-    expect(parseIntensity('70*')).toEqual({ value: 70, flags: [], dropped: ['*'] });
-    expect(parseIntensity('200hfs')).toEqual({ value: 200, flags: [], dropped: ['hfs'] });
+    expect(parseIntensity('70*')).toEqual({ value: 70, flags: ['shared-intensity'], dropped: [] });
+    expect(parseIntensity('200hfs')).toEqual({ value: 200, flags: ['hyperfine-structure'], dropped: [] });
+    expect(parseIntensity('110d,bl(Fe II)*')).toEqual({
+      value: 110,
+      flags: ['diffuse', 'blend', 'shared-intensity'],
+      dropped: [],
+    });
+    expect(parseIntensity('250blNe*').flags).toEqual(['blend', 'shared-intensity']);
+    expect(parseIntensity('50aff(Fe I)')).toEqual({ value: 50, flags: [], dropped: ['aff'] });
+    expect(parseIntensity('12:')).toEqual({ value: 12, flags: [], dropped: [':'] });
     expect(parseIntensity('bl')).toEqual({ value: null, flags: ['blend'], dropped: [] });
     expect(parseIntensity('')).toEqual({ value: null, flags: [], dropped: [] });
     expect(cleanCell('="656.279"')).toBe('656.279');
     expect(cleanCell('"=""656.279"""')).toBe('656.279');
     expect([1, 2, 3, 4, 9, 14].map(romanNumeral)).toEqual(['I', 'II', 'III', 'IV', 'IX', 'XIV']);
+  });
+});
+
+// Real excerpts of NIST ASD's fixed-width ASCII output (test/fixtures/nist/README.md): the rows
+// as retrieved, cut down to a few dozen lines. Each check names spectrum, line and retrieval date.
+describe('NIST ASD import: the ASCII table (real excerpts)', () => {
+  const ascii = (name: string, species: string) => convert(fixture(name), { species }, name);
+  const near = (rows: readonly { vacuum_nm: number }[], vacuum_nm: number) =>
+    rows.find((r) => Math.abs(r.vacuum_nm - vacuum_nm) < 0.0005);
+
+  it('reads Hg I (retrieved 2016-04-21): vacuum from the table, air by the IAU formula', () => {
+    const r = ascii('hg-i-ascii.txt', 'Hg I');
+    const parsed = parseOutput(r.value.tsv).species.get('Hg I');
+    if (!parsed) throw new Error('no Hg I');
+    expect(r.value.tsv).toContain('ASCII table');
+    // Hg I 4047.708, 4359.560, 5462.268, 5771.210, 5792.276 Å (vacuum, observed) in the table;
+    // NIST ASD air 404.656, 435.833, 546.0735, 576.960, 579.066 nm (the catalog's named lines; from memory).
+    const pairs: [number, number][] = [
+      [404.7708, 404.656],
+      [435.956, 435.833],
+      [546.2268, 546.0735],
+      [577.121, 576.96],
+      [579.2276, 579.066],
+    ];
+    for (const [vacuum, air] of pairs) {
+      const row = near(r.value.rows, vacuum);
+      expect(row?.basis, `${vacuum}`).toBe('observed');
+      // 0.002 nm: the catalog checks' tolerance for air computed from vacuum (docs/catalog.md).
+      expect(Math.abs((row?.air_nm as number) - air), `${vacuum}`).toBeLessThan(0.002);
+    }
+    // Rel. Int. as printed: 12000 for 4047.708 and 4359.560 Å, 6000 for 5462.268 Å.
+    expect(near(r.value.rows, 404.7708)?.intensity).toBe(12000);
+    expect(near(r.value.rows, 546.2268)?.intensity).toBe(6000);
+    // The separator rows and the commented header rows are not lines.
+    expect(parsed.vacuum_nm.length).toBe(r.value.rows.length);
+    expect(r.value.rows.every((row) => row.vacuum_nm > 280 && row.vacuum_nm < 582)).toBe(true);
+  });
+
+  it('resolves a blend into one line: Hg I 2800.78 Å (three components, Ritz 2800.674–2801.066 Å)', () => {
+    const r = ascii('hg-i-ascii.txt', 'Hg I');
+    const blend = r.value.rows.filter((row) => Math.abs(row.vacuum_nm - 280.078) < 0.001);
+    expect(blend).toHaveLength(1);
+    // Rel. Int. "1*" (shared by the components), Type E2 (electric quadrupole).
+    expect(blend[0]?.flags).toEqual(expect.arrayContaining(['blend', 'shared-intensity', 'forbidden']));
+    expect(r.warnings.some((w) => w.message.includes('blend resolved into components'))).toBe(true);
+    // Hg I 2811.55 Å: Rel. Int. "d" only (diffuse, no number) and Type E2.
+    const diffuse = near(r.value.rows, 281.155);
+    expect(diffuse?.flags).toEqual(['diffuse', 'forbidden']);
+    expect(diffuse?.intensity).toBe(1);
+  });
+
+  it('keeps the Rel. Int. descriptors of Fe II (retrieved 2020-04-23), blends with other spectra included', () => {
+    const r = ascii('fe-ii-ascii.txt', 'Fe II');
+    // 3001.170 Å "250bl(Fe II)?*": blended, questionable, intensity shared.
+    expect(near(r.value.rows, 300.117)?.flags).toEqual(['blend', 'questionable', 'shared-intensity']);
+    expect(near(r.value.rows, 300.117)?.intensity).toBe(250);
+    // 3020.100 Å "90d,bl(Fe I)": diffuse, blended with an Fe I line.
+    expect(near(r.value.rows, 302.01)?.flags).toEqual(['diffuse', 'blend']);
+    // Fe II 4925.2962, 5019.8351 Å (vacuum): NIST ASD air 492.392 and 501.844 nm (from memory).
+    expect(Math.abs((near(r.value.rows, 492.52962)?.air_nm as number) - 492.392)).toBeLessThan(0.001);
+    expect(Math.abs((near(r.value.rows, 501.98351)?.air_nm as number) - 501.844)).toBeLessThan(0.001);
+    expect(near(r.value.rows, 501.98351)?.intensity).toBe(8000);
+  });
+
+  it('reads the uncertainty columns of Ar II (retrieved 2018-10-03): O Unc. with the observed value', () => {
+    const r = ascii('ar-ii-ascii.txt', 'Ar II');
+    // Ar II 4881.22627 ± 0.00010 Å (vacuum), Rel. Int. 2239: the 488.0 nm argon-ion laser line,
+    // NIST ASD air 487.9864 nm (from memory).
+    const line = near(r.value.rows, 488.122627);
+    expect(line?.unc_nm).toBeCloseTo(0.00001, 9);
+    expect(line?.intensity).toBe(2239);
+    expect(Math.abs((line?.air_nm as number) - 487.9864)).toBeLessThan(0.0005);
+    // Ar II 5146.74143 Å, Rel. Int. 162: the 514.5 nm laser line, NIST ASD air 514.5308 nm (from memory).
+    expect(Math.abs((near(r.value.rows, 514.674143)?.air_nm as number) - 514.5308)).toBeLessThan(0.0005);
+    expect(near(r.value.rows, 514.674143)?.intensity).toBe(162);
+    // 3000.984 Å with O Unc. 0.003 Å.
+    expect(near(r.value.rows, 300.0984)?.unc_nm).toBeCloseTo(0.0003, 9);
+  });
+
+  it('reads Zn I (retrieved 2016-05-02): observed only, no Ritz column filled, r = self-reversed', () => {
+    const r = ascii('zn-i-ascii.txt', 'Zn I');
+    expect(r.value.rows.every((row) => row.basis === 'observed')).toBe(true);
+    // Zn I 3283.28 Å "500r" and 3303.53 Å "800" (vacuum, as the table has them).
+    expect(near(r.value.rows, 328.328)?.flags).toEqual(['self-reversed']);
+    expect(near(r.value.rows, 328.328)?.intensity).toBe(500);
+    expect(near(r.value.rows, 330.353)?.intensity).toBe(800);
+    // 3345.98 Å (vacuum): NIST ASD air 334.502 nm (from memory).
+    expect(Math.abs((near(r.value.rows, 334.598)?.air_nm as number) - 334.502)).toBeLessThan(0.001);
+    // No stated uncertainty: one unit of the last decimal written (0.01 Å = 0.001 nm).
+    expect(near(r.value.rows, 334.598)?.unc_nm).toBeCloseTo(0.001, 9);
   });
 });
