@@ -12,6 +12,16 @@ export const RYDBERG_INFINITY_PER_M = 10_973_731.568_16;
 /** Electron-to-proton mass ratio mₑ/mₚ. CODATA 2018. */
 export const ELECTRON_PROTON_MASS_RATIO = 5.446_170_214_87e-4;
 
+/**
+ * Electron-to-alpha-particle mass ratio mₑ/mα (the ⁴He nucleus, for He II's reduced mass).
+ * CODATA 2018 (Tiesinga et al. 2021, Rev. Mod. Phys. 93, 025010); value from memory, not read
+ * from a stored copy (mα/mₑ = 7294.299 541 42).
+ */
+export const ELECTRON_ALPHA_MASS_RATIO = 1 / 7294.299_541_42;
+
+/** Fine-structure constant α. CODATA 2018 (Tiesinga et al. 2021); value from memory. */
+export const FINE_STRUCTURE_CONSTANT = 7.297_352_569_3e-3;
+
 /** FWHM of a Gaussian in units of its standard deviation: 2·√(2 ln 2). Mathematical identity. */
 export const FWHM_PER_SIGMA = 2 * Math.sqrt(2 * Math.LN2);
 

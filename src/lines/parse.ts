@@ -5,13 +5,14 @@
 import { createHash } from 'node:crypto';
 import { parse as parseYaml } from 'yaml';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
-import type {
-  CandidateGroup,
-  Catalog,
-  CatalogFile,
-  LineOrigin,
-  SourceCitation,
-  SpeciesLines,
+import {
+  type CandidateGroup,
+  type Catalog,
+  type CatalogFile,
+  LINE_ORIGINS,
+  type LineOrigin,
+  type SourceCitation,
+  type SpeciesLines,
 } from './types.js';
 
 export const CATALOG_COLUMNS = [
@@ -162,8 +163,8 @@ function parseLineFile(
       problem(file.name, lineNo, 1, 'species', 'species is empty or padded');
     if (!sources.has(source))
       problem(file.name, lineNo, col(6), 'source', `source key "${source}" is not in sources.yaml`);
-    if (origin !== 'read' && origin !== 'memory')
-      problem(file.name, lineNo, col(7), 'origin', 'origin must be read or memory');
+    if (!(LINE_ORIGINS as readonly string[]).includes(origin))
+      problem(file.name, lineNo, col(7), 'origin', `origin must be ${LINE_ORIGINS.join(', ')}`);
     rows.push({
       species,
       vacuum_nm: num(vac, 1, 'vacuum_nm'),

@@ -1,6 +1,13 @@
 /** The reference line catalog, as loaded: per species, sorted typed arrays. */
 
-export type LineOrigin = 'read' | 'memory';
+/**
+ * Where a row's value comes from: `read` from a stored copy of the cited source, `memory`
+ * (recalled, not checked against the source), or `computed` from a formula and constants the
+ * source key cites (H I and He II from the Rydberg formula).
+ */
+export type LineOrigin = 'read' | 'memory' | 'computed';
+
+export const LINE_ORIGINS: readonly LineOrigin[] = ['read', 'memory', 'computed'];
 
 export interface SpeciesLines {
   species: string;

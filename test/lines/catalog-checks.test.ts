@@ -100,9 +100,9 @@ describe('catalog rows as written', () => {
     }
   });
 
-  it('names an origin (read or memory) and a cited source on every row', () => {
+  it('names an origin (read, memory or computed) and a cited source on every row', () => {
     for (const r of allRows) {
-      expect(['read', 'memory'], r.where).toContain(r.cells[7]);
+      expect(['read', 'memory', 'computed'], r.where).toContain(r.cells[7]);
       expect(catalog.sources.get(r.cells[6] as string)?.citation, r.where).toMatch(/\S{10}/);
     }
   });

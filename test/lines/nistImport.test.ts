@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest';
 import {
   cleanCell,
   convertNistExport,
+  type ImportedRow,
   type NistImportOptions,
   parseIntensity,
   romanNumeral,
@@ -186,7 +187,7 @@ describe('NIST ASD import: the rules', () => {
 // as retrieved, cut down to a few dozen lines. Each check names spectrum, line and retrieval date.
 describe('NIST ASD import: the ASCII table (real excerpts)', () => {
   const ascii = (name: string, species: string) => convert(fixture(name), { species }, name);
-  const near = (rows: readonly { vacuum_nm: number }[], vacuum_nm: number) =>
+  const near = (rows: readonly ImportedRow[], vacuum_nm: number) =>
     rows.find((r) => Math.abs(r.vacuum_nm - vacuum_nm) < 0.0005);
 
   it('reads Hg I (retrieved 2016-04-21): vacuum from the table, air by the IAU formula', () => {
