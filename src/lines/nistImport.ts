@@ -562,21 +562,22 @@ function writeTsv(rows: readonly ImportedRow[], file: string, sourceKey: string,
     '# COMPUTED with the IAU formula (Morton 2000, ApJS 130, 403); air_nm is "-" below 200 nm.',
     CATALOG_COLUMNS.join('\t'),
   ];
-  for (const r of rows) {
-    const digits = r.decimals;
-    const unc = decimal(r.unc_nm, Math.max(digits, 6)).replace(/0+$/, '').replace(/\.$/, '');
-    out.push(
-      [
-        r.species,
-        decimal(r.vacuum_nm, digits),
-        r.air_nm === null ? '-' : decimal(r.air_nm, digits),
-        Number(unc) > 0 ? unc : '0',
-        String(r.intensity),
-        r.flags.length > 0 ? r.flags.join(',') : '-',
-        sourceKey,
-        'read',
-      ].join('\t'),
-    );
-  }
+  for (const r of rows) out.push(catalogRow(r, sourceKey));
   return `${out.join('\n')}\n`;
+}
+
+/** One imported row as a catalog TSV line (origin `read`), with the source's precision. */
+export function catalogRow(r: ImportedRow, sourceKey: string): string {
+  const digits = r.decimals;
+  const unc = decimal(r.unc_nm, Math.max(digits, 6)).replace(/0+$/, '').replace(/\.$/, '');
+  return [
+    r.species,
+    decimal(r.vacuum_nm, digits),
+    r.air_nm === null ? '-' : decimal(r.air_nm, digits),
+    Number(unc) > 0 ? unc : '0',
+    String(r.intensity),
+    r.flags.length > 0 ? r.flags.join(',') : '-',
+    sourceKey,
+    'read',
+  ].join('\t');
 }
