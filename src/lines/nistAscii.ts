@@ -50,6 +50,7 @@ function columnName(words: string, previous: string | null): string {
   if (/^Unc\./.test(words)) return previous?.startsWith('ritz') ? 'unc_ritz_wl' : 'unc_obs_wl';
   if (/^Rel\.\s*Int/.test(words)) return 'intens';
   if (/^Type\b/.test(words)) return 'Type';
+  if (/^Aki\b/.test(words)) return 'Aki(s^-1)';
   return words;
 }
 

@@ -30,6 +30,10 @@ export interface ImportedRow {
   flags: string[];
   /** Which wavelength was used: observed or Ritz (computed from the energy levels). */
   basis: 'observed' | 'ritz';
+  /** Whether the export gave a number for the intensity (else it is written 1, ranking last). */
+  intensity_stated: boolean;
+  /** The transition probability Aki (1/s) if the export gives one. */
+  aki_per_s: number | null;
   /** The row's Ritz wavelength (vacuum, nm), if it has one: tells a blend's components apart. */
   ritz_vacuum_nm: number | null;
   /** Line of the export the row came from. */
@@ -193,6 +197,7 @@ interface Columns {
   observed: WavelengthColumn | null;
   ritz: WavelengthColumn | null;
   intensity: number;
+  aki: number;
   element: number;
   spNum: number;
   type: number;
@@ -244,6 +249,7 @@ function readHeader(names: readonly string[]): Columns | null {
     observed,
     ritz,
     intensity: find('intens'),
+    aki: names.findIndex((x) => /^aki\b/i.test(x)),
     element: find('element'),
     spNum: find('sp_num'),
     type: find('type'),
@@ -432,6 +438,9 @@ export function convertNistExport(
     const intensityText = c.intensity >= 0 ? (cells[c.intensity] ?? '') : '';
     const parsed = parseIntensity(intensityText);
     let intensity = parsed.value;
+    const intensity_stated = intensity !== null;
+    const akiText = c.aki >= 0 ? (cells[c.aki] ?? '') : '';
+    const aki = /^\d+(\.\d*)?(e[+-]?\d+)?$/i.test(akiText) ? Number(akiText) : null;
     if (intensity === null) {
       say(
         warnings,
@@ -456,6 +465,8 @@ export function convertNistExport(
       intensity,
       flags,
       basis: obs ? 'observed' : 'ritz',
+      intensity_stated,
+      aki_per_s: aki !== null && aki > 0 ? aki : null,
       ritz_vacuum_nm: ritz === null ? null : ritzVacuum(ritz, options.medium),
       line: lineNo,
       decimals: Math.max(places, 4),
@@ -544,6 +555,8 @@ function mergeDuplicates(
         decimal(last.ritz_vacuum_nm, digits) !== decimal(r.ritz_vacuum_nm, digits);
       warn(r, last, components);
       last.intensity = Math.max(last.intensity, r.intensity);
+      last.intensity_stated ||= r.intensity_stated;
+      if (r.aki_per_s !== null) last.aki_per_s = Math.max(last.aki_per_s ?? 0, r.aki_per_s);
       for (const f of r.flags) if (!last.flags.includes(f)) last.flags.push(f);
       if (components && !last.flags.includes('blend')) last.flags.push('blend');
       continue;
