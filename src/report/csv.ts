@@ -23,6 +23,7 @@ export function linesCsv(result: ResultJson): string {
     'ref_vacuum_nm',
     'residual_nm',
     'residual_km_s',
+    'ref_origin',
     'alternatives',
   ];
   const rows = result.lines.map((l) =>
@@ -40,6 +41,7 @@ export function linesCsv(result: ResultJson): string {
       l.assignment?.ref_vacuum_nm ?? '',
       l.assignment?.residual_nm ?? '',
       l.assignment?.residual_km_s ?? '',
+      l.assignment?.ref_origin ?? '',
       l.alternatives.map((a) => `${a.species} ${a.ref_vacuum_nm}`).join('; '),
     ]
       .map(cell)

@@ -3,6 +3,7 @@
  * and printed by `lineledger identify --json`. Field names are the contract: do not rename.
  */
 import type { Identification } from '../identify/types.js';
+import { countOrigins, type ReferenceOrigin, referenceOrigin } from '../lines/origin.js';
 import type { Catalog } from '../lines/types.js';
 import type { CalibrationResult, Reduction } from '../reduce/types.js';
 
@@ -11,6 +12,8 @@ export interface ResultJson {
   id: string;
   program: { name: 'lineledger'; version: string };
   catalog: { version: string; sha256: string };
+  /** How many of the assigned lines' reference values were read, recalled (memory), computed. */
+  reference_origins: Record<ReferenceOrigin, number>;
   input: { file: string; sha256: string };
   medium: 'air' | 'vacuum';
   status: string;
@@ -33,6 +36,8 @@ export interface ResultJson {
       residual_nm: number;
       residual_km_s: number;
       blend: boolean;
+      /** Where the reference value comes from: read from its source, recalled, or computed. */
+      ref_origin: ReferenceOrigin | null;
     } | null;
     alternatives: { species: string; ref_vacuum_nm: number; residual_nm: number }[];
   }[];
@@ -92,11 +97,26 @@ export function buildResult(
   programVersion: string,
 ): ResultJson {
   const byIndex = new Map(identification.lines.map((l) => [l.index, l]));
+  const originOf = new Map(
+    identification.lines.map((l) => [
+      l.index,
+      l.assignment
+        ? referenceOrigin(
+            catalog,
+            l.assignment.species,
+            l.assignment.ref_vacuum_nm,
+            l.assignment.blend,
+            identification.fwhm_nm,
+          )
+        : null,
+    ]),
+  );
   return {
     format: 'lineledger-result/1',
     id: reduction.session.id,
     program: { name: 'lineledger', version: programVersion },
     catalog: { version: catalog.version, sha256: catalog.sha256 },
+    reference_origins: countOrigins([...originOf.values()]),
     input: { file: reduction.session.file.replace(/^.*[\\/]/, ''), sha256: reduction.session.input_sha256 },
     medium: reduction.medium,
     status: identification.explanation.status,
@@ -122,6 +142,7 @@ export function buildResult(
               residual_nm: r(a.assignment.residual_nm),
               residual_km_s: r(a.assignment.residual_km_s, 3),
               blend: a.assignment.blend,
+              ref_origin: originOf.get(l.index) ?? null,
             }
           : null,
         alternatives: (a?.alternatives ?? []).map((x) => ({

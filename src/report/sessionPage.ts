@@ -1,5 +1,7 @@
 /** One session's record page: the view model the template fills, and its charts. */
+
 import type { Identification } from '../identify/types.js';
+import type { ReferenceOrigin } from '../lines/origin.js';
 import type { Catalog } from '../lines/types.js';
 import type { Reduction } from '../reduce/types.js';
 import type { Session } from '../session/types.js';
@@ -9,6 +11,14 @@ import { calibrationChart, residualChart, scanChart, scoreChart, spectrumChart }
 import { display, fixed, percent, probability, speciesLabel } from './format.js';
 import { renderNotes } from './notes.js';
 import type { ResultJson } from './result.js';
+
+/** The assignment table's mark for a reference value that was not read (explained in its caption). */
+const ORIGIN_MARK: Readonly<Record<ReferenceOrigin, string>> = {
+  read: '',
+  memory: '†',
+  mixed: '†',
+  computed: '‡',
+};
 
 export interface SessionPageInput {
   session: Session;
@@ -173,6 +183,10 @@ export async function sessionPageModel(
       ? await renderChart(scanChart(scanTitle, found.scan, found.z), cache)
       : null;
 
+  const resultLine = new Map(result.lines.map((l) => [l.index, l]));
+  const o = result.reference_origins;
+  const referenceOrigins = `${o.read} read from their sources, ${o.memory} recalled (memory)${o.computed ? `, ${o.computed} computed` : ''}${o.mixed ? `, ${o.mixed} blends of read and recalled rows` : ''}`;
+
   const usedSources = new Set<string>();
   for (const sp of idn.explanation.species)
     for (const s of catalog.species.get(sp)?.source ?? []) usedSources.add(s);
@@ -227,7 +241,9 @@ export async function sessionPageModel(
     assignments: reduction.lines.map((l) => {
       const a = bySessionIndex.get(l.index);
       const asg = a?.assignment;
+      const origin = resultLine.get(l.index)?.assignment?.ref_origin ?? null;
       return {
+        origin_mark: origin === null ? '' : ORIGIN_MARK[origin],
         number: l.index + 1,
         wavelength: fixed(display(l.rest_vacuum_nm, medium), 3),
         species: asg ? speciesLabel(asg.species, asg.flags) + (asg.blend ? ' (blend)' : '') : 'unexplained',
@@ -266,5 +282,6 @@ export async function sessionPageModel(
     inputSha256: result.input.sha256,
     buildOptions: input.buildOptions,
     sources,
+    referenceOrigins,
   };
 }
