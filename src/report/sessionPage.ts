@@ -185,7 +185,7 @@ export async function sessionPageModel(
 
   const resultLine = new Map(result.lines.map((l) => [l.index, l]));
   const o = result.reference_origins;
-  const referenceOrigins = `${o.read} read from their sources, ${o.memory} recalled (memory)${o.computed ? `, ${o.computed} computed` : ''}${o.mixed ? `, ${o.mixed} blends of read and recalled rows` : ''}`;
+  const referenceOrigins = `${o.read} read from their sources, ${o.memory} recalled (memory)${o.computed ? `, ${o.computed} computed` : ''}${o.mixed ? `, ${o.mixed} blend${o.mixed === 1 ? '' : 's'} of read and recalled rows` : ''}`;
 
   const usedSources = new Set<string>();
   for (const sp of idn.explanation.species)
