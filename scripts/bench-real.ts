@@ -4,6 +4,7 @@
  * against the published assignments. Metrics are defined in test/real/README.md.
  *   --half dev|heldout|all   which half to run (default all; each half is reported apart)
  *   --verbose                per-case line table
+ *   --list                   print the cases as a Markdown table (for test/real/README.md) and stop
  */
 import { defaultConfig } from '../src/config/read.js';
 import type { Identification } from '../src/identify/types.js';
@@ -204,6 +205,21 @@ function report(half: Half, results: CaseResult[]): void {
 const { cases, problems } = loadCases();
 for (const p of problems) process.stderr.write(`${p.file}: ${p.message}\n`);
 if (problems.length > 0) process.exit(1);
+if (args.includes('--list')) {
+  process.stdout.write('| case | half | category | origin | lines | citation |\n|---|---|---|---|---|---|\n');
+  for (const c of cases) {
+    const cite = c.citation.replace(/\|/g, '/');
+    process.stdout.write(
+      `| ${c.case} | ${c.half} | ${c.category} | ${c.origin} | ${c.lineCount} | ${cite} |\n`,
+    );
+  }
+  const count = (f: (c: RealCase) => boolean) => cases.filter(f).length;
+  process.stdout.write(
+    `\n${cases.length} cases: ${count((c) => c.half === 'dev')} dev, ${count((c) => c.half === 'heldout')} held out; ` +
+      `${count((c) => c.origin === 'read')} read, ${count((c) => c.origin === 'memory')} from memory.\n`,
+  );
+  process.exit(0);
+}
 const halves: Half[] = halfArg === 'all' ? ['dev', 'heldout'] : [halfArg];
 const t0 = performance.now();
 for (const half of halves) report(half, cases.filter((c) => c.half === half).map(score));
