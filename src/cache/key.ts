@@ -36,6 +36,8 @@ export function contextKey(input: ContextKeyInput): string {
       sha256: catalog.sha256,
       groups: [...catalog.groups.entries()],
       defaults: [...catalog.defaultGroupsBySourceKind.entries()],
+      // …and so do the priors by source (data/priors.yaml).
+      priors: [[...catalog.priors.kinds.entries()], [...catalog.priors.classes.entries()]],
     },
     // The index template and the stylesheet do not shape a session's files.
     templates: { layout: input.templates.layout, session: input.templates.session },

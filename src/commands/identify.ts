@@ -22,16 +22,16 @@ export function formatRanking(title: string, id: string, result: ResultJson): st
   out.push('  rank  species        score  confidence  matched/expected  false alarm');
   result.candidates.slice(0, 8).forEach((c, i) => {
     out.push(
-      `  ${String(i + 1).padStart(4)}  ${c.species.padEnd(12)} ${fixed(c.score, 1).padStart(7)}  ${percent(c.confidence).padStart(10)}  ${`${c.matched}/${c.expected}`.padStart(16)}  ${probability(c.false_alarm).padStart(11)}`,
+      `  ${String(i + 1).padStart(4)}  ${c.display.padEnd(12)} ${fixed(c.score, 1).padStart(7)}  ${percent(c.confidence).padStart(10)}  ${`${c.matched}/${c.expected}`.padStart(16)}  ${probability(c.false_alarm).padStart(11)}`,
     );
   });
   out.push('');
-  out.push(`  line  wavelength (${result.medium} nm)  assignment`);
+  out.push(`  line  wavelength (${result.medium} nm)  status       assignment`);
   for (const l of result.lines) {
     const a = l.assignment;
     const shown = result.medium === 'air' ? l.air_nm : l.vacuum_nm;
     out.push(
-      `  ${String(l.index + 1).padStart(4)}  ${fixed(shown, 3).padStart(19)}  ${a ? `${a.species} ${fixed(a.ref_vacuum_nm, 3)} vac (${fixed(a.residual_nm, 3)} nm)` : 'unexplained'}`,
+      `  ${String(l.index + 1).padStart(4)}  ${fixed(shown, 3).padStart(19)}  ${l.status.padEnd(11)}  ${a ? `${a.display} ${fixed(a.ref_vacuum_nm, 3)} vac (${fixed(a.residual_nm, 3)} nm, ${percent(l.probability)})` : '—'}`,
     );
   }
   return out.join('\n');

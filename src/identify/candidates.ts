@@ -5,6 +5,7 @@ import type { Catalog } from '../lines/types.js';
 import { positionOfField } from '../session/normalize.js';
 import { didYouMean } from '../session/suggest.js';
 import type { Session } from '../session/types.js';
+import { sessionPriors } from './priors.js';
 
 const TELLURIC_KINDS = new Set(['star', 'sky', 'galaxy', 'nebula']);
 
@@ -58,6 +59,8 @@ export function candidateSpecies(
   if (groups.length === 0 && species.length === 0) {
     const defaults = catalog.defaultGroupsBySourceKind.get(session.source.kind) ?? [];
     for (const id of defaults) for (const s of catalog.groups.get(id)?.species ?? []) chosen.add(s);
+    // Species the source's priors name (light pollution in a nebula, the Sun in daylight…) join too.
+    for (const s of sessionPriors(session, catalog).named.keys()) chosen.add(s);
     if (chosen.size === 0) for (const s of catalog.names) chosen.add(s);
   }
   if (TELLURIC_KINDS.has(session.source.kind)) {

@@ -16,6 +16,13 @@ export interface EvidenceContext {
   fwhm_nm: number;
   background_per_nm: number;
   medianSigma_nm: number;
+  /**
+   * Weight of the cost of lines predicted but not listed (1 for a complete list of a source whose
+   * catalog intensities hold; less for a selection or distrusted intensities, see model.ts).
+   */
+  missWeight: number;
+  /** The catalog's intensities do not predict this source's lines: flat detection, no rank term. */
+  flatIntensities: boolean;
 }
 
 const MAX_THRESHOLDS = 14;
@@ -33,17 +40,20 @@ function thresholdCandidates(refs: readonly RefLine[]): number[] {
 export function detectionProbabilities(
   refs: readonly RefLine[],
   threshold: number,
+  missWeight = 1,
 ): { q: Float64Array; missCost: number } {
   const q = Float64Array.from(refs, (r) => (r.intensity >= threshold ? Q_STRONG : Q_WEAK));
   let missCost = 0;
   for (const p of q) missCost += Math.log1p(-p);
-  return { q, missCost };
+  return { q, missCost: missWeight * missCost };
 }
 
 export function rankTerm(
   matches: readonly Match[],
   intensities: readonly (number | null)[],
+  flat = false,
 ): { term: number; rho: number | null } {
+  if (flat) return { term: 0, rho: null };
   const pairs = matches.filter((m) => intensities[m.line] !== null && intensities[m.line] !== undefined);
   const rho = spearman(
     pairs.map((m) => intensities[m.line] as number),
@@ -64,8 +74,9 @@ export function evaluateSpecies(
   const cols = touchedRefs(ctx.points, refCentres, maxUnc, ctx.fwhm_nm);
   let best: { llr: number; threshold: number; q: Float64Array; missCost: number; matches: Match[] } | null =
     null;
-  for (const threshold of thresholdCandidates(refs)) {
-    const { q, missCost } = detectionProbabilities(refs, threshold);
+  // Distrusted intensities: every line equally likely to show (one threshold below all).
+  for (const threshold of ctx.flatIntensities ? [0] : thresholdCandidates(refs)) {
+    const { q, missCost } = detectionProbabilities(refs, threshold, ctx.missWeight);
     const { matches, gain } = bestMatching({
       lines: ctx.points,
       refs,
@@ -74,7 +85,7 @@ export function evaluateSpecies(
       fwhm_nm: ctx.fwhm_nm,
       background_per_nm: ctx.background_per_nm,
     });
-    const llr = missCost + gain + rankTerm(matches, ctx.intensities).term;
+    const llr = missCost + gain + rankTerm(matches, ctx.intensities, ctx.flatIntensities).term;
     if (best === null || llr > best.llr) best = { llr, threshold, q, missCost, matches };
   }
   const chosen = best ?? {
@@ -89,7 +100,7 @@ export function evaluateSpecies(
   // the score itself uses the profiled limit above.
   const weakestSeen = Math.min(...chosen.matches.map((m) => m.ref.intensity));
   const strong = chosen.matches.length > 0 ? refs.filter((r) => r.intensity >= weakestSeen) : [];
-  const rank = rankTerm(chosen.matches, ctx.intensities);
+  const rank = rankTerm(chosen.matches, ctx.intensities, ctx.flatIntensities);
   const halfWidth = WINDOW_SIGMAS * pairSigma(ctx.medianSigma_nm, 0, ctx.fwhm_nm);
   const covered = coveredLength(
     refs.map((r) => r.vacuum_nm),

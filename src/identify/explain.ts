@@ -1,22 +1,43 @@
 /**
  * Mixtures: explain the session with the smallest set of species the evidence supports.
- * Forward selection on the joint log-likelihood ratio with a penalty per added species
- * (log of the number of candidates plus one nat: a prior that any one species is present,
- * an information-criterion-style Occam factor), then the posterior over the explanations
- * visited (the chosen set, each with one species dropped, added or swapped).
+ * Forward selection on the joint log-likelihood ratio plus each species' log prior odds
+ * (priors.ts: from data/priors.yaml for the source, else the uninformed prior below, an
+ * Occam factor), then the posterior over the explanations visited (the chosen set, each with
+ * one species dropped, added or swapped).
  */
 import type { EvidenceContext } from './evidence.js';
 import { rankTerm } from './evidence.js';
 import { bestMatching } from './match.js';
 import type { ContendingExplanation, Match, PreparedSpecies, RefLine } from './types.js';
 
-export const MAX_SPECIES = 4;
-/** Largest false-alarm probability (chance of as many matches from random lines) a species may have to join. */
+/** Real nebulae and the solar spectrum need 8–15 species. */
+export const MAX_SPECIES = 15;
+/**
+ * Largest false-alarm probability (chance of as many matches from random lines) a species with
+ * one match and the uninformed prior may have to join; a stronger prior raises it in proportion
+ * to its prior odds (see chanceLimit).
+ */
 export const MAX_FALSE_ALARM = 0.05;
-const MAX_POOL = 12;
+/** …but never beyond this: a match that chance gives half the time is no evidence at all. */
+export const MAX_FALSE_ALARM_CAP = 0.5;
+const MAX_POOL = 20;
 
+/**
+ * The uninformed prior: ½ log N + 1 nats per species for N candidates (a prior that any one of
+ * them is present, an information-criterion-style Occam factor; the ½ was chosen on the
+ * synthetic benchmark, where log N + 1 lost true second gases).
+ */
 export function speciesPenalty(candidateCount: number): number {
   return 0.5 * Math.log(Math.max(2, candidateCount)) + 1;
+}
+
+/**
+ * The false-alarm limit of a species of prior penalty `penalty` (negative log prior odds):
+ * posterior odds ≈ prior odds / false-alarm probability must reach what MAX_FALSE_ALARM asks of
+ * a species with the uninformed prior.
+ */
+export function chanceLimit(penalty: number, uninformed: number): number {
+  return Math.min(MAX_FALSE_ALARM_CAP, MAX_FALSE_ALARM * Math.exp(uninformed - penalty));
 }
 
 export interface ScoredSet {
@@ -29,7 +50,7 @@ export function scoreSet(
   set: readonly string[],
   prepared: ReadonlyMap<string, PreparedSpecies>,
   ctx: EvidenceContext,
-  penalty: number,
+  penaltyOf: (species: string) => number,
 ): ScoredSet {
   if (set.length === 0) return { species: [], total: 0, matches: [] };
   // Only the lines some window reaches can match: merge those of each species (small lists).
@@ -55,8 +76,11 @@ export function scoreSet(
     ranks += rankTerm(
       matches.filter((m) => m.ref.species === s),
       ctx.intensities,
+      ctx.flatIntensities,
     ).term;
-  return { species: [...set].sort(), total: missCost + gain + ranks - penalty * set.length, matches };
+  let penalty = 0;
+  for (const sp of set) penalty += penaltyOf(sp);
+  return { species: [...set].sort(), total: missCost + gain + ranks - penalty, matches };
 }
 
 export interface MixtureResult {
@@ -74,20 +98,23 @@ export function selectMixture(
   }[],
   prepared: ReadonlyMap<string, PreparedSpecies>,
   ctx: EvidenceContext,
-  candidateCount: number,
+  penaltyOf: (species: string) => number,
+  uninformed: number,
 ): MixtureResult {
-  const penalty = speciesPenalty(candidateCount);
   const pool = singles
     .filter((s) => s.score > 0)
     .sort((a, b) => b.score - a.score || a.species.localeCompare(b.species))
     .slice(0, MAX_POOL)
     .map((s) => s.species);
   // A species that matches a single line which chance alone would often give is not added
-  // to the answer: it would only "explain" a stray line. It still stands as a rival below.
-  // Telluric bands are exempt: every ground-based spectrum may show them.
+  // to the answer unless its prior makes up for it (Na I in a flame): it would only "explain" a
+  // stray line. It still stands as a rival below. Telluric bands are exempt: every ground-based
+  // spectrum may show them.
   const mayJoin = new Set(
     singles
-      .filter((s) => s.telluric || s.matched >= 2 || s.false_alarm <= MAX_FALSE_ALARM)
+      .filter(
+        (s) => s.telluric || s.matched >= 2 || s.false_alarm <= chanceLimit(penaltyOf(s.species), uninformed),
+      )
       .map((s) => s.species),
   );
   const visited = new Map<string, ScoredSet>();
@@ -95,7 +122,7 @@ export function selectMixture(
     const key = [...set].sort().join('|');
     const hit = visited.get(key);
     if (hit) return hit;
-    const scored = scoreSet(set, prepared, ctx, penalty);
+    const scored = scoreSet(set, prepared, ctx, penaltyOf);
     visited.set(key, scored);
     return scored;
   };
@@ -105,6 +132,8 @@ export function selectMixture(
     for (const s of pool) {
       if (current.species.includes(s) || !mayJoin.has(s)) continue;
       const trial = score([...current.species, s]);
+      // A species joins only for the lines it explains, never for its prior alone.
+      if (!trial.matches.some((m) => m.ref.species === s)) continue;
       if (next === null || trial.total > next.total) next = trial;
     }
     if (next === null || next.total <= current.total) break;
@@ -117,7 +146,10 @@ export function selectMixture(
     score([...current.species, c]);
     for (const s of current.species) score([...current.species.filter((x) => x !== s), c]);
   }
-  return { best: current, visited: [...visited.values()] };
+  // A set in which some species explains no line is not an explanation of these lines (a strong
+  // prior alone would otherwise lift it above the answer).
+  const explains = (v: ScoredSet) => v.species.every((sp) => v.matches.some((m) => m.ref.species === sp));
+  return { best: current, visited: [...visited.values()].filter(explains) };
 }
 
 /** Posterior probabilities of the visited explanations (softmax of their totals). */

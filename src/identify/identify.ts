@@ -12,16 +12,29 @@ import type { MeasuredLine, Reduction } from '../reduce/types.js';
 import { positionOfField } from '../session/normalize.js';
 import { candidateSpecies, isTelluric } from './candidates.js';
 import { type EvidenceContext, evaluateSpecies } from './evidence.js';
-import { posterior, selectMixture } from './explain.js';
+import { posterior, selectMixture, speciesPenalty } from './explain.js';
 import type { MeasuredPoint } from './match.js';
-import { calibratedConfidence, pairSigma, statusFor, WINDOW_SIGMAS } from './model.js';
+import {
+  calibratedConfidence,
+  IDENTIFIED_THRESHOLD,
+  matchGain,
+  missWeight,
+  pairSigma,
+  statusFor,
+  TENTATIVE_MIN,
+  WINDOW_SIGMAS,
+} from './model.js';
+import { displayName } from './notation.js';
 import { refsInRange } from './prepare.js';
+import { priorPenalty, sessionPriors } from './priors.js';
 import { searchShift } from './shiftSearch.js';
 import { describeExplanation } from './summary.js';
 import type {
   AssignedLine,
   Explanation,
   Identification,
+  LineStatus,
+  Match,
   PreparedSpecies,
   RefLine,
   SpeciesEvidence,
@@ -117,6 +130,9 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
 /** Identification of lines already in their rest frame. */
 export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identification {
   const { species: pool } = candidateSpecies(reduction.session, catalog);
+  const priors = sessionPriors(reduction.session, catalog);
+  const uninformed = speciesPenalty(Math.max(pool.length, 2));
+  const penaltyOf = (s: string) => priorPenalty(priors, s, uninformed);
   const z = reduction.shift?.z ?? 0;
   const sorted = [...reduction.lines].sort(
     (a, b) => a.rest_vacuum_nm - b.rest_vacuum_nm || a.index - b.index,
@@ -132,6 +148,7 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
       ? reduction.resolution_nm / (1 + z)
       : Math.max(FWHM_PER_SIGMA * medianSigma, 0.05);
   const range = expectedRange(reduction, sorted, z, fwhm);
+  const flat = priors.labIntensities === 'distrust';
   const ctx: EvidenceContext = {
     points,
     intensities: sorted.map((l) => l.intensity),
@@ -139,6 +156,8 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     fwhm_nm: fwhm,
     background_per_nm: Math.max(1, points.length) / (range[1] - range[0]),
     medianSigma_nm: medianSigma,
+    missWeight: missWeight(priors.linesListed, flat),
+    flatIntensities: flat,
   };
 
   const prepared = new Map<string, PreparedSpecies>();
@@ -149,16 +168,17 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     const telluric = isTelluric(catalog, name);
     // Telluric lines arise in the observer's frame: compare them at observed wavelengths.
     const scale = telluric ? 1 / (1 + z) : 1;
-    const refs = refsInRange(lines, range[0] / scale, range[1] / scale, fwhm / scale).map((r) =>
-      scale === 1 ? r : { ...r, vacuum_nm: r.vacuum_nm * scale },
-    );
+    const refs = refsInRange(lines, range[0] / scale, range[1] / scale, fwhm / scale, {
+      points: Float64Array.from(points, (p) => p.vacuum_nm / scale),
+      halfWidth_nm: (WINDOW_SIGMAS * pairSigma(medianSigma, 0, fwhm)) / scale,
+    }).map((r) => (scale === 1 ? r : { ...r, vacuum_nm: r.vacuum_nm * scale }));
     if (refs.length === 0) continue;
     const result = evaluateSpecies(name, refs, ctx, telluric);
     prepared.set(name, result.prepared);
     evidence.push(result.evidence);
   }
 
-  const mixture = selectMixture(evidence, prepared, ctx, Math.max(pool.length, 2));
+  const mixture = selectMixture(evidence, prepared, ctx, penaltyOf, uninformed);
   const contenders = posterior(mixture.visited);
   for (const e of evidence) {
     e.confidence = contenders
@@ -166,32 +186,63 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
       .reduce((a, c) => a + c.probability, 0);
   }
   evidence.sort((a, b) => b.score - a.score || a.species.localeCompare(b.species));
+  const shareOf = new Map(evidence.map((e) => [e.species, e.confidence]));
 
   const best = mixture.best;
   const bestKey = best.species.join('|');
   const rawConfidence = contenders.find((c) => c.species.join('|') === bestKey)?.probability ?? 0;
   const confidence = calibratedConfidence(rawConfidence);
+  const status = statusFor(best.species, confidence);
   const assignedByPoint = new Map(best.matches.map((m) => [m.line, m]));
+  const chosenSet = new Set(best.species);
+  const display = displayNames(pool, prepared, best.matches);
   const lines: AssignedLine[] = sorted.map((line, i) => {
+    const point = points[i] as MeasuredPoint;
     const m = assignedByPoint.get(i);
+    let lineStatus: LineStatus = 'unexplained';
+    let probability = 0;
+    let ref: RefLine | null = null;
+    if (m) {
+      ref = m.ref;
+      // The line's species is confirmed when it is in (nearly) every weighed explanation.
+      probability = shareOf.get(m.ref.species) ?? rawConfidence;
+      lineStatus =
+        status === 'identified' && probability >= IDENTIFIED_THRESHOLD ? 'identified' : 'tentative';
+    } else {
+      const guess = tentativeFor(point, prepared, evidence, chosenSet, ctx, penaltyOf);
+      if (guess && guess.probability >= TENTATIVE_MIN) {
+        ref = guess.ref;
+        probability = guess.probability;
+        lineStatus = 'tentative';
+      }
+    }
     return {
       index: line.index,
-      assignment: m
+      status: lineStatus,
+      probability,
+      assignment: ref
         ? {
-            species: m.ref.species,
-            ref_vacuum_nm: m.ref.vacuum_nm,
-            residual_nm: m.residual_nm,
-            residual_km_s: residualVelocity_km_s(m.residual_nm, m.ref.vacuum_nm),
-            blend: m.ref.members > 1,
-            flags: m.ref.flags,
+            species: ref.species,
+            display: displayName(ref.species, [ref.flags]),
+            ref_vacuum_nm: ref.vacuum_nm,
+            residual_nm: point.vacuum_nm - ref.vacuum_nm,
+            residual_km_s: residualVelocity_km_s(point.vacuum_nm - ref.vacuum_nm, ref.vacuum_nm),
+            blend: ref.members > 1,
+            flags: ref.flags,
           }
         : null,
-      alternatives: alternativesFor(points[i] as MeasuredPoint, m?.ref ?? null, prepared, evidence, fwhm),
+      alternatives: alternativesFor(point, ref, prepared, evidence, fwhm),
     };
   });
   lines.sort((a, b) => a.index - b.index);
-  const unexplained = lines.filter((l) => l.assignment === null).map((l) => l.index);
-  const status = statusFor(best.species, confidence);
+  const unexplained = lines.filter((l) => l.status === 'unexplained').map((l) => l.index);
+  const tentative = [
+    ...new Set(lines.filter((l) => l.status === 'tentative').map((l) => l.assignment?.species ?? '')),
+  ]
+    .filter(
+      (sp) => sp !== '' && !lines.some((l) => l.status === 'identified' && l.assignment?.species === sp),
+    )
+    .sort();
   const shown = contenders.filter((c) => c.probability >= 0.01).slice(0, 5);
   const discriminators =
     status === 'ambiguous'
@@ -203,13 +254,14 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     raw_confidence: rawConfidence,
     status,
     telluric: best.species.filter((sp) => isTelluric(catalog, sp)),
+    tentative,
     unexplained,
     contenders: shown,
     discriminators,
     summary: '',
     score: best.total,
   };
-  explanation.summary = describeExplanation(explanation, lines.length, reduction.medium);
+  explanation.summary = describeExplanation(explanation, lines, reduction.medium, display);
   return {
     candidates: evidence,
     explanation,
@@ -218,7 +270,60 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     range_nm: range,
     fwhm_nm: fwhm,
     shift: null,
+    display,
+    scale: null,
+    lines_listed: { value: priors.linesListed, stated: priors.linesListedStated },
   };
+}
+
+/** Each species in notation: from the flags of its lines assigned here, else of its lines in range. */
+function displayNames(
+  pool: readonly string[],
+  prepared: ReadonlyMap<string, PreparedSpecies>,
+  matches: readonly Match[],
+): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const s of pool) {
+    const own = matches.filter((m) => m.ref.species === s).map((m) => m.ref.flags);
+    out[s] = displayName(s, own.length ? own : (prepared.get(s)?.refs.map((r) => r.flags) ?? []));
+  }
+  return out;
+}
+
+/**
+ * The best plausible assignment of a line the explanation leaves over: each candidate species'
+ * nearest line in the window weighs exp(gain − prior penalty) against 1 for "background", so
+ * the probability is that of the line coming from it rather than from chance or another species.
+ */
+function tentativeFor(
+  point: MeasuredPoint,
+  prepared: ReadonlyMap<string, PreparedSpecies>,
+  evidence: readonly SpeciesEvidence[],
+  chosen: ReadonlySet<string>,
+  ctx: EvidenceContext,
+  penaltyOf: (s: string) => number,
+): { ref: RefLine; probability: number } | null {
+  let total = 1;
+  let best: { ref: RefLine; weight: number } | null = null;
+  for (const e of evidence) {
+    const p = prepared.get(e.species);
+    if (!p) continue;
+    let top: { ref: RefLine; gain: number } | null = null;
+    for (const k of p.touched) {
+      const r = p.refs[k] as RefLine;
+      const sigma = pairSigma(point.sigma_nm, r.unc_nm, ctx.fwhm_nm);
+      const d = point.vacuum_nm - r.vacuum_nm;
+      if (Math.abs(d) > WINDOW_SIGMAS * sigma) continue;
+      const g = matchGain(d, sigma, p.q[k] as number, ctx.background_per_nm);
+      if (top === null || g > top.gain) top = { ref: r, gain: g };
+    }
+    if (!top) continue;
+    // A species already in the answer pays no prior again for one more line.
+    const w = Math.exp(Math.min(50, top.gain - (chosen.has(e.species) ? 0 : penaltyOf(e.species))));
+    total += w;
+    if (best === null || w > best.weight) best = { ref: top.ref, weight: w };
+  }
+  return best ? { ref: best.ref, probability: best.weight / total } : null;
 }
 
 /** Where lines were expected: the instrument's range (rest frame, vacuum) or the measured span padded. */

@@ -54,6 +54,22 @@ export function calibratedConfidence(raw: number, calibration = CONFIDENCE_CALIB
   return 1 / (1 + Math.exp(-x));
 }
 
+/**
+ * Cost of a line predicted but not listed, as a fraction of its full log(1 − q): a selection
+ * (published and club lists name the lines they care about) and a source whose catalog
+ * intensities do not hold (flames, stars, the sky) say little by leaving a line out. Chosen on
+ * the development half of the real-observation benchmark.
+ */
+export const SELECTION_MISS_WEIGHT = 0.15;
+export const DISTRUST_MISS_WEIGHT = 0.35;
+
+export function missWeight(listed: 'all-seen' | 'selection', distrusted: boolean): number {
+  return (listed === 'selection' ? SELECTION_MISS_WEIGHT : 1) * (distrusted ? DISTRUST_MISS_WEIGHT : 1);
+}
+
+/** A leftover line's best assignment this probable or better is shown as tentative. */
+export const TENTATIVE_MIN = 0.3;
+
 /** An explanation this probable or better is reported as identified; below, as ambiguous. */
 export const IDENTIFIED_THRESHOLD = 0.7;
 

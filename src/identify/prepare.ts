@@ -1,12 +1,39 @@
 /**
  * A species' reference lines inside the session's range, with lines closer than one
- * resolution element merged into blends (intensity-weighted centre, summed intensity).
+ * resolution element merged into blends (intensity-weighted centre, summed intensity) —
+ * unless the measured lines show them resolved: two measured lines, one on each side of the
+ * midpoint between two catalog lines and each within reach of its side, split the blend so that
+ * each can be matched (a stated resolution can be too pessimistic; warnings.ts says so).
  */
-import { windowRange } from '../lines/search.js';
+import { lowerBound, windowRange } from '../lines/search.js';
 import type { SpeciesLines } from '../lines/types.js';
 import type { RefLine } from './types.js';
 
-export function refsInRange(lines: SpeciesLines, from_nm: number, to_nm: number, fwhm_nm: number): RefLine[] {
+export interface ResolvedBy {
+  /** Measured wavelengths, ascending, in the same frame as the catalog lines. */
+  points: Float64Array;
+  /** How far a measured line may sit from a catalog line and still stand for it. */
+  halfWidth_nm: number;
+}
+
+/** Whether measured lines fall on both sides of the midpoint of catalog lines a < b, each near its own. */
+function resolvedBetween(a: number, b: number, by: ResolvedBy): boolean {
+  const mid = (a + b) / 2;
+  const pts = by.points;
+  const left = lowerBound(pts, a - by.halfWidth_nm);
+  const hasLeft = left < pts.length && (pts[left] as number) < mid;
+  const right = lowerBound(pts, mid);
+  const hasRight = right < pts.length && (pts[right] as number) <= b + by.halfWidth_nm;
+  return hasLeft && hasRight;
+}
+
+export function refsInRange(
+  lines: SpeciesLines,
+  from_nm: number,
+  to_nm: number,
+  fwhm_nm: number,
+  resolvedBy: ResolvedBy | null = null,
+): RefLine[] {
   const [start, end] = windowRange(lines.vacuum_nm, from_nm, to_nm);
   const out: RefLine[] = [];
   let group: number[] = [];
@@ -39,7 +66,12 @@ export function refsInRange(lines: SpeciesLines, from_nm: number, to_nm: number,
   };
   for (let k = start; k < end; k++) {
     const prev = group.at(-1);
-    if (prev !== undefined && (lines.vacuum_nm[k] as number) - (lines.vacuum_nm[prev] as number) >= fwhm_nm)
+    const here = lines.vacuum_nm[k] as number;
+    const before = prev === undefined ? Number.NaN : (lines.vacuum_nm[prev] as number);
+    if (
+      prev !== undefined &&
+      (here - before >= fwhm_nm || (resolvedBy !== null && resolvedBetween(before, here, resolvedBy)))
+    )
       flush();
     group.push(k);
   }

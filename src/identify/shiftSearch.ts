@@ -15,7 +15,7 @@ import { redshiftFromVelocity, restFrame, velocityFromRedshift } from '../reduce
 import type { Reduction } from '../reduce/types.js';
 import { candidateSpecies, isTelluric } from './candidates.js';
 import { calibratedConfidence, statusFor } from './model.js';
-import { describeExplanation } from './summary.js';
+import { relabel } from './relabel.js';
 import type { Identification, ScanPoint, ShiftFound } from './types.js';
 
 /** How many grid bins get a full identification, at most. */
@@ -179,7 +179,7 @@ export function searchShift(
   e.raw_confidence /= total;
   e.confidence = calibratedConfidence(e.raw_confidence);
   e.status = statusFor(e.species, e.confidence);
-  e.summary = describeExplanation(e, idn.lines.length, reduction.medium);
+  relabel(idn, reduction.medium);
   return { found, identification: { ...idn, shift: found }, reduction: shifted };
 }
 

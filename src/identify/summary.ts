@@ -1,6 +1,6 @@
-/** The explanation in plain words: "Hg I with Ar I; 1 line unexplained." */
+/** The explanation in plain words: "Hg I with Ar I; tentative: [O I] (#6); 1 line unexplained." */
 import type { Medium } from '../session/types.js';
-import type { Explanation } from './types.js';
+import type { AssignedLine, Explanation } from './types.js';
 
 /** A probability as a percentage that never claims certainty it does not have. */
 export function percent(p: number): string {
@@ -15,9 +15,18 @@ function list(names: readonly string[]): string {
   return `${names.slice(0, -1).join(', ')} with ${names.at(-1)}`;
 }
 
-export function describeExplanation(e: Explanation, lineCount: number, medium: Medium): string {
-  const source = e.species.filter((s) => !e.telluric.includes(s));
-  const sky = e.telluric.length ? `, plus telluric ${e.telluric.join(', ')} (Earth's atmosphere)` : '';
+export function describeExplanation(
+  e: Explanation,
+  lines: readonly AssignedLine[],
+  medium: Medium,
+  display: Readonly<Record<string, string>> = {},
+): string {
+  const shown = (s: string) => display[s] ?? s;
+  const lineCount = lines.length;
+  const source = e.species.filter((s) => !e.telluric.includes(s)).map(shown);
+  const sky = e.telluric.length
+    ? `, plus telluric ${e.telluric.map(shown).join(', ')} (Earth's atmosphere)`
+    : '';
   const names = (list_: readonly string[]) => (list_.length ? list(list_) : 'telluric lines only');
   const unexplained =
     e.unexplained.length === 0
@@ -27,21 +36,35 @@ export function describeExplanation(e: Explanation, lineCount: number, medium: M
       : e.unexplained.length === lineCount
         ? 'no line explained'
         : `${e.unexplained.length} line${e.unexplained.length === 1 ? '' : 's'} unexplained (${e.unexplained.map((i) => `#${i + 1}`).join(', ')})`;
+  // Species outside the answer that only tentatively explain a line, named apart.
+  const extra = e.tentative.filter((s) => !e.species.includes(s));
+  const tentative = extra.length
+    ? `; tentative: ${extra
+        .map((s) => {
+          const own = lines.filter((l) => l.status === 'tentative' && l.assignment?.species === s);
+          return `${shown(s)} (${own.map((l) => `#${l.index + 1}`).join(', ')})`;
+        })
+        .join(', ')}`
+    : '';
   switch (e.status) {
     case 'unexplained':
-      return `No species in the catalog explains these lines better than chance; ${unexplained}.`;
+      return extra.length
+        ? `No species is confirmed${tentative}; ${unexplained}.`
+        : `No species in the catalog explains these lines better than chance; ${unexplained}.`;
     case 'identified':
-      return `${names(source)}${sky} (${percent(e.confidence)}); ${unexplained}.`;
+      return `${names(source)}${sky} (${percent(e.confidence)})${tentative}; ${unexplained}.`;
     case 'ambiguous': {
       const rivals = e.contenders
         .slice(0, 3)
-        .map((c) => (c.species.length ? c.species.join(' + ') : 'nothing'))
+        .map((c) => (c.species.length ? c.species.map(shown).join(' + ') : 'nothing'))
         .join(' or ');
       const decide = e.discriminators[0];
       const unit = medium === 'air' ? decide?.air_nm : decide?.vacuum_nm;
       const hint =
-        decide && unit !== undefined ? ` — measure ${unit.toFixed(1)} nm (${decide.species}) to decide` : '';
-      return `Ambiguous between ${rivals}${hint}; best guess ${names(source)}${sky} (${percent(e.confidence)}); ${unexplained}.`;
+        decide && unit !== undefined
+          ? ` — measure ${unit.toFixed(1)} nm (${shown(decide.species)}) to decide`
+          : '';
+      return `Ambiguous between ${rivals}${hint}; best guess ${names(source)}${sky} (${percent(e.confidence)})${tentative}; ${unexplained}.`;
     }
   }
 }

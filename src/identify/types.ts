@@ -52,6 +52,8 @@ export interface SpeciesEvidence {
 
 export interface LineAssignment {
   species: string;
+  /** The species in spectroscopic notation for this line ([O III], C III]). */
+  display: string;
   ref_vacuum_nm: number;
   residual_nm: number;
   residual_km_s: number;
@@ -65,9 +67,19 @@ export interface Alternative {
   residual_nm: number;
 }
 
+/**
+ * identified: its species is confirmed; tentative: the best plausible assignment, its species
+ * not confirmed (or the explanation in doubt); unexplained: no assignment beats chance.
+ */
+export type LineStatus = 'identified' | 'tentative' | 'unexplained';
+
 export interface AssignedLine {
   /** Index of the line in the session file. */
   index: number;
+  status: LineStatus;
+  /** Probability that the assignment is right (0 when unexplained). */
+  probability: number;
+  /** Set for identified and tentative lines. */
   assignment: LineAssignment | null;
   alternatives: Alternative[];
 }
@@ -91,6 +103,8 @@ export interface Explanation {
   status: IdentificationStatus;
   /** Species of the explanation that come from Earth's atmosphere (telluric bands). */
   telluric: string[];
+  /** Species with only tentative lines, or in the explanation but not confirmed. */
+  tentative: string[];
   /** Session line indices that no species explains. */
   unexplained: number[];
   contenders: ContendingExplanation[];
@@ -110,6 +124,28 @@ export interface Identification {
   fwhm_nm: number;
   /** The shift found by a search, when the session asked for one (else null). */
   shift: ShiftFound | null;
+  /** Each considered species in spectroscopic notation ([O III], C III]) for this session. */
+  display: Record<string, string>;
+  /** The fitted reading offset/scale when one was found and applied (else null). */
+  scale: ScaleCorrection | null;
+  /** What the list was taken to be, and from where. */
+  lines_listed: { value: 'all-seen' | 'selection'; stated: boolean };
+}
+
+/** A systematic reading error fitted as nuisance parameters: λ_true = λ_read − offset − scale·(λ_read − pivot). */
+export interface ScaleCorrection {
+  offset_nm: number;
+  offset_sigma_nm: number;
+  /** Linear scale error (dimensionless, per nm of distance from the pivot); 0 when not fitted. */
+  scale: number;
+  scale_sigma: number;
+  pivot_nm: number;
+  /** Species whose lines fixed it. */
+  against: string[];
+  lines_used: number;
+  /** How much better the explanation scores with it (nats). */
+  gain_nats: number;
+  message: string;
 }
 
 export interface ScanPoint {

@@ -32,6 +32,12 @@ export function readCatalogInput(
   } catch {
     groupsYaml = null;
   }
+  let priorsYaml: CatalogInput['priorsYaml'] = null;
+  try {
+    priorsYaml = read(join(dataDir, 'priors.yaml'), 'priors.yaml');
+  } catch {
+    priorsYaml = null;
+  }
   return {
     version: readFileSync(join(linesDir, 'VERSION'), 'utf8'),
     lineFiles: [
@@ -43,6 +49,7 @@ export function readCatalogInput(
       ...extras.map((e) => read(e.sources, `project:${basename(e.sources)}`)),
     ],
     groupsYaml,
+    priorsYaml,
   };
 }
 

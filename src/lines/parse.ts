@@ -5,6 +5,7 @@
 import { createHash } from 'node:crypto';
 import { parse as parseYaml } from 'yaml';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
+import { EMPTY_PRIORS, parsePriors } from './priors.js';
 import {
   type CandidateGroup,
   type Catalog,
@@ -44,6 +45,8 @@ export interface CatalogInput {
   /** The bundled sources.yaml first, then any the project adds for its own lists. */
   sourceFiles: CatalogFile[];
   groupsYaml: CatalogFile | null;
+  /** data/priors.yaml (species priors by source), when present. */
+  priorsYaml?: CatalogFile | null;
 }
 
 export function catalogSha256(input: CatalogInput): string {
@@ -93,6 +96,9 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
   const { groups, defaults } = input.groupsYaml
     ? parseGroups(input.groupsYaml, species, problem)
     : { groups: new Map<string, CandidateGroup>(), defaults: new Map<string, string[]>() };
+  const priors = input.priorsYaml
+    ? parsePriors(input.priorsYaml, new Set(names), groups, problem)
+    : EMPTY_PRIORS;
 
   if (diagnostics.length > 0) return { ok: false, diagnostics };
   return {
@@ -105,6 +111,7 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
       sources,
       groups,
       defaultGroupsBySourceKind: defaults,
+      priors,
     },
     warnings: [],
   };

@@ -47,10 +47,35 @@ export interface Catalog {
   sources: ReadonlyMap<string, SourceCitation>;
   groups: ReadonlyMap<string, CandidateGroup>;
   defaultGroupsBySourceKind: ReadonlyMap<string, readonly string[]>;
+  /** Species priors by source (data/priors.yaml); empty when the data folder has none. */
+  priors: SourcePriors;
 }
 
 /** A catalog file's name and text, as the read edge hands it over. */
 export interface CatalogFile {
   name: string;
   text: string;
+}
+
+/** One entry of data/priors.yaml: a species (or a group's members) with its prior and why. */
+export interface PriorEntry {
+  p: number;
+  reason: string;
+  source: string;
+  /** The species it applies to: one, or a group's members. */
+  members: readonly string[];
+  /** The group's id when the entry names a group (a named species overrides it). */
+  group: string | null;
+}
+
+export interface SourcePriorSet {
+  lines_listed: 'all-seen' | 'selection' | null;
+  lab_intensities: 'trust' | 'distrust' | null;
+  priors: PriorEntry[];
+}
+
+/** Priors by source.kind and by source.class (a class inherits and overrides its kind). */
+export interface SourcePriors {
+  kinds: ReadonlyMap<string, SourcePriorSet>;
+  classes: ReadonlyMap<string, SourcePriorSet>;
 }

@@ -30,8 +30,14 @@ export interface ResultJson {
     intensity: number | null;
     kind: string;
     combined_with: number[];
+    /** identified, tentative (best plausible assignment, species not confirmed) or unexplained. */
+    status: string;
+    /** Probability that the assignment is right (0 when unexplained). */
+    probability: number;
     assignment: {
       species: string;
+      /** In spectroscopic notation: [O III], C III]. */
+      display: string;
       ref_vacuum_nm: number;
       residual_nm: number;
       residual_km_s: number;
@@ -43,6 +49,7 @@ export interface ResultJson {
   }[];
   candidates: {
     species: string;
+    display: string;
     score: number;
     confidence: number;
     matched: number;
@@ -54,6 +61,10 @@ export interface ResultJson {
   }[];
   explanation: {
     species: string[];
+    /** The explanation's species in spectroscopic notation, in the same order. */
+    display: string[];
+    /** Species that explain lines only tentatively, named apart from the confirmed ones. */
+    tentative: string[];
     unexplained: number[];
     confidence: number;
     status: string;
@@ -81,6 +92,19 @@ export interface ResultJson {
   calibration: CalibrationResult | null;
   range_nm: [number, number];
   fwhm_nm: number;
+  /** A reading offset (and scale error) fitted and removed before identification, or null. */
+  scale_correction: {
+    offset_nm: number;
+    offset_sigma_nm: number;
+    scale: number;
+    scale_sigma: number;
+    pivot_nm: number;
+    against: string[];
+    lines_used: number;
+    message: string;
+  } | null;
+  /** Whether the list was taken as every line seen or a selection, and if the session said so. */
+  lines_listed: { value: string; stated: boolean };
 }
 
 /** Round to a fixed number of significant decimals so the JSON is stable and readable. */
@@ -135,9 +159,12 @@ export function buildResult(
         intensity: l.intensity,
         kind: l.kind,
         combined_with: l.combined_indices,
+        status: a?.status ?? 'unexplained',
+        probability: r(a?.probability ?? 0, 4),
         assignment: a?.assignment
           ? {
               species: a.assignment.species,
+              display: a.assignment.display,
               ref_vacuum_nm: r(a.assignment.ref_vacuum_nm),
               residual_nm: r(a.assignment.residual_nm),
               residual_km_s: r(a.assignment.residual_km_s, 3),
@@ -154,6 +181,7 @@ export function buildResult(
     }),
     candidates: identification.candidates.map((c) => ({
       species: c.species,
+      display: identification.display[c.species] ?? c.species,
       score: r(c.score, 3),
       confidence: r(c.confidence, 4),
       matched: c.matched,
@@ -165,6 +193,8 @@ export function buildResult(
     })),
     explanation: {
       species: identification.explanation.species,
+      display: identification.explanation.species.map((s) => identification.display[s] ?? s),
+      tentative: identification.explanation.tentative,
       unexplained: identification.explanation.unexplained,
       confidence: r(identification.explanation.confidence, 4),
       status: identification.explanation.status,
@@ -182,6 +212,19 @@ export function buildResult(
     calibration: reduction.calibration,
     range_nm: [r(identification.range_nm[0], 4), r(identification.range_nm[1], 4)],
     fwhm_nm: r(identification.fwhm_nm, 4),
+    scale_correction: identification.scale
+      ? {
+          offset_nm: r(identification.scale.offset_nm, 4),
+          offset_sigma_nm: r(identification.scale.offset_sigma_nm, 4),
+          scale: r(identification.scale.scale, 8),
+          scale_sigma: r(identification.scale.scale_sigma, 8),
+          pivot_nm: r(identification.scale.pivot_nm, 3),
+          against: identification.scale.against,
+          lines_used: identification.scale.lines_used,
+          message: identification.scale.message,
+        }
+      : null,
+    lines_listed: identification.lines_listed,
   };
 }
 

@@ -1,0 +1,49 @@
+/**
+ * The priors of one session: data/priors.yaml resolved for its source kind and class.
+ * A species the file does not name keeps the uninformed prior (explain.ts speciesPenalty);
+ * a named one is weighed by its log prior odds. Also what the list is (all seen or a
+ * selection) and whether the catalog's intensities can be trusted for this source.
+ */
+import type { Catalog, PriorEntry, SourcePriorSet } from '../lines/types.js';
+import type { Session } from '../session/types.js';
+
+export interface SessionPriors {
+  /** Prior probability of each species the priors file names for this source. */
+  named: ReadonlyMap<string, PriorEntry>;
+  linesListed: 'all-seen' | 'selection';
+  /** Whether linesListed came from the session itself (else the kind's default). */
+  linesListedStated: boolean;
+  labIntensities: 'trust' | 'distrust';
+}
+
+/** Entries of one set, per species: a species named on its own beats a group naming it. */
+function perSpecies(set: SourcePriorSet | undefined, into: Map<string, PriorEntry>) {
+  if (!set) return;
+  const own = new Map<string, PriorEntry>();
+  const viaGroup = new Map<string, PriorEntry>();
+  for (const e of set.priors) for (const s of e.members) (e.group === null ? own : viaGroup).set(s, e);
+  for (const [s, e] of viaGroup) if (!own.has(s)) into.set(s, e);
+  for (const [s, e] of own) into.set(s, e);
+}
+
+export function sessionPriors(session: Session, catalog: Catalog): SessionPriors {
+  const kind = catalog.priors.kinds.get(session.source.kind);
+  const cls = session.source.class ? catalog.priors.classes.get(session.source.class) : undefined;
+  const named = new Map<string, PriorEntry>();
+  perSpecies(kind, named);
+  // The class overrides its kind species by species.
+  perSpecies(cls, named);
+  return {
+    named,
+    linesListed: session.lines_listed ?? cls?.lines_listed ?? kind?.lines_listed ?? 'all-seen',
+    linesListedStated: session.lines_listed !== null,
+    labIntensities: cls?.lab_intensities ?? kind?.lab_intensities ?? 'trust',
+  };
+}
+
+/** Negative log prior odds of a species, nats; `uninformed` for one the file does not name. */
+export function priorPenalty(priors: SessionPriors, species: string, uninformed: number): number {
+  const e = priors.named.get(species);
+  if (!e) return uninformed;
+  return Math.log((1 - e.p) / e.p);
+}

@@ -1,0 +1,64 @@
+/** Real observations that identification must get right (issue 10), with their published values. */
+import { describe, expect, it } from 'vitest';
+import { runSession } from '../src/pipeline.js';
+import { buildResult } from '../src/report/result.js';
+import { bundledCatalog } from './helpers/catalog.js';
+
+const catalog = bundledCatalog();
+
+function result(yaml: string) {
+  const out = runSession('r.yaml', yaml, catalog);
+  if (!out.ok) throw new Error(JSON.stringify(out.diagnostics));
+  return buildResult(out.reduction, out.identification, catalog, 'test');
+}
+const lines = (ws: number[]) => ws.map((w) => `  - { wavelength: ${w} }`).join('\n');
+
+describe('real observations', () => {
+  it('a sodium chloride flame: Na D 589.0 / 589.6 nm air (NIST ASD, from memory), σ 0.5, resolution 1 nm', () => {
+    const r = result(
+      `lineledger: 1\nsource: { kind: flame }\ninstrument: { resolution_nm: 1 }\nmeasurement: { sigma: 0.5 }\nlines:\n${lines([589.0, 589.6])}\n`,
+    );
+    expect(r.explanation.species).toEqual(['Na I']);
+    expect(r.status).toBe('identified');
+    for (const l of r.lines) expect(l.assignment?.species).toBe('Na I');
+  });
+
+  it('a single 589.5 nm reading in a flame is Na I (sodium shows in nearly every flame; common practice)', () => {
+    const r = result(
+      `lineledger: 1\nsource: { kind: flame }\nmeasurement: { sigma: 0.5 }\nlines:\n${lines([589.5])}\n`,
+    );
+    expect(r.explanation.species).toEqual(['Na I']);
+  });
+
+  it('a planetary nebula: [O III] 500.7, Hα 656.3, [N II] 658.4, street-light Hg I 435.8/546.1, airglow [O I] 557.7 (Osterbrock & Ferland 2006, from memory)', () => {
+    const r = result(
+      `lineledger: 1\nsource: { kind: nebula, class: planetary-nebula }\nmeasurement: { sigma: 0.3 }\nlines:\n${lines([435.8, 500.7, 546.1, 557.7, 656.3, 658.4])}\n`,
+    );
+    for (const s of ['O III', 'H I', 'N II']) expect(r.explanation.species).toContain(s);
+    expect(r.explanation.display).toContain('[O III]');
+    const by = (i: number) => r.lines[i];
+    expect(by(0)?.assignment?.species).toBe('Hg I');
+    expect(by(3)?.assignment?.species).toBe('O I');
+    expect(['identified', 'tentative']).toContain(by(3)?.status);
+    expect(r.summary).not.toContain('better than chance');
+  });
+
+  it('two quasar lines at unknown z are Hβ and Hα (3C 273, z ≈ 0.158, from memory)', () => {
+    // Vacuum Hβ 486.27, Hα 656.46 nm (NIST ASD, from memory) × 1.158.
+    const r = result(
+      `lineledger: 1\nsource: { kind: galaxy, class: quasar }\nmedium: vacuum\ninstrument: { resolution_nm: 2 }\nmeasurement: { sigma: 1 }\nshift: { redshift: { search: [0, 1] } }\nlines:\n${lines([563.1, 760.2])}\n`,
+    );
+    expect(r.explanation.species).toEqual(['H I']);
+    expect(Math.abs((r.shift?.z ?? 0) - 0.158)).toBeLessThan(0.002);
+  });
+
+  it('the Fraunhofer lines C, D, F as kind sky: H I and Na I (Fraunhofer table, Wikipedia stored copy)', () => {
+    const r = result(
+      `lineledger: 1\nsource: { kind: sky }\nmeasurement: { sigma: 0.2 }\nlines:\n${[656.28, 589.3, 527.04, 517.27, 486.13, 430.79, 686.72].map((w) => `  - { wavelength: ${w}, kind: absorption }`).join('\n')}\n`,
+    );
+    expect(r.lines[0]?.assignment?.species).toBe('H I');
+    expect(r.lines[1]?.assignment?.species).toBe('Na I');
+    expect(r.lines[4]?.assignment?.species).toBe('H I');
+    expect(r.lines.filter((l) => l.status === 'unexplained').length).toBeLessThanOrEqual(1);
+  });
+});
