@@ -26,6 +26,7 @@ import {
 } from './report/site.js';
 import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
 import type { InstrumentSpec } from './session/types.js';
+import { checkBuildTargets } from './write/guard.js';
 import { readManifest, verifiedFiles, writeManifest } from './write/manifest.js';
 import { openStaging } from './write/writeSite.js';
 
@@ -42,6 +43,8 @@ export interface BuildOptions {
   jobs?: number | 'auto';
   /** The cache folder; null builds everything afresh and keeps no cache. */
   cacheDir?: string | null;
+  /** The folder of lineledger.yaml, when one is used: never replaced by the site. */
+  configDir?: string | null;
   /** fsync every file and folder before the swap (survives a power cut; slower). */
   durable?: boolean;
   /** Told of every session as it is placed in the site. */
@@ -122,6 +125,17 @@ export async function buildSite(
   catalog: Catalog,
   templateTexts: TemplateTexts = readTemplateTexts(),
 ): Promise<BuildReport> {
+  const cacheDir = options.cacheDir === undefined ? defaultCacheDir(options.outDir) : options.cacheDir;
+  // Before anything is read or written: the site and cache folders must be ours to replace.
+  checkBuildTargets({
+    inputDir: options.inputDir,
+    outDir: options.outDir,
+    cacheDir,
+    configDir: options.configDir ?? null,
+    manifestPaths: [...new Set([cacheDir, defaultCacheDir(options.outDir)].filter((d) => d !== null))].map(
+      (d) => join(d, 'site-manifest.json'),
+    ),
+  });
   const paths = listSessionFiles(options.inputDir);
   const inputs = paths.map((p) => ({ path: p, bytes: readFileSync(p) as Uint8Array }));
   options.onStart?.(inputs.length);
@@ -138,7 +152,6 @@ export async function buildSite(
     builtOn,
   };
 
-  const cacheDir = options.cacheDir === undefined ? defaultCacheDir(options.outDir) : options.cacheDir;
   const fingerprint = programFingerprint();
   const store = cacheDir === null ? null : new SessionStore(cacheDir, fingerprint);
   const charts = new ChartStore(store ? store.chartDir : null);

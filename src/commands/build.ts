@@ -5,6 +5,7 @@ import type { Command } from 'commander';
 import { buildSite } from '../build.js';
 import { createProgress, type Verbosity } from '../progress/reporter.js';
 import { PROGRAM_VERSION } from '../version.js';
+import { TargetRefused } from '../write/guard.js';
 import {
   CommandFailure,
   EXIT_CANNOT_RUN,
@@ -74,12 +75,14 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
       jobs: parseJobs(opts.jobs),
       durable: opts.fsync === true,
       cacheDir: opts.cache === false ? null : opts.cacheDir ? resolve(opts.cacheDir) : undefined,
+      configDir: config.file ? dirname(resolve(config.file)) : null,
       onStart: (n) => progress.start(n),
       onSession: (e) => progress.session(e),
     },
     catalog,
   )
     .catch((e: Error) => {
+      if (e instanceof TargetRefused) throw new CommandFailure(e.message);
       throw new CommandFailure(`build failed: ${e.message}`);
     })
     .finally(() => progress.finish());
