@@ -27,6 +27,7 @@ export function lineledger(args: readonly string[], cwd: string, env: NodeJS.Pro
   const r = spawnSync(process.execPath, [CLI, ...args], {
     cwd,
     encoding: 'utf8',
+    maxBuffer: 256 * 1024 * 1024,
     env: { ...process.env, SOURCE_DATE_EPOCH: '1767225600', ...env },
   });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
