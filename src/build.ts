@@ -14,12 +14,12 @@ import {
   realpathSync,
   statSync,
 } from 'node:fs';
-import { dirname, isAbsolute, join, relative, resolve } from 'node:path';
+import { dirname, isAbsolute, join, relative, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { programFingerprint } from './cache/fingerprint.js';
 import { contextKey, sessionKey } from './cache/key.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
-import type { Diagnostic } from './diagnostics.js';
+import { type Diagnostic, escapeControls } from './diagnostics.js';
 import type { Catalog } from './lines/types.js';
 import { autoJobs, runPool } from './parallel/pool.js';
 import type { TaskMessage } from './parallel/protocol.js';
@@ -135,6 +135,15 @@ export function readSessionInput(
   root: string | null,
   maxBytes: number = SESSION_LIMITS.maxBytes,
 ): SessionInput | null {
+  // A name that could drive the terminal or the page is refused before anything is read.
+  const name = path.replace(/^.*[\\/]/, '');
+  if (escapeControls(name) !== name)
+    return inputProblem(
+      path,
+      'control-character',
+      'the file name holds control characters',
+      'rename the file to plain letters, digits and dashes',
+    );
   let real: string;
   try {
     real = realpathSync(path);
@@ -164,7 +173,7 @@ export function readSessionInput(
   if (root !== null) {
     const base = realpathSync(root);
     const rel = relative(base, real);
-    if (rel === '' || rel.startsWith('..') || isAbsolute(rel))
+    if (rel === '' || rel === '..' || rel.startsWith(`..${sep}`) || isAbsolute(rel))
       return inputProblem(
         path,
         'link-outside',
@@ -218,7 +227,7 @@ export function readSessionInput(
 
 /** The unit of a file that could not be read: it fails with its one problem, the rest build. */
 function unreadableUnit(path: string, problem: Diagnostic): SessionUnit {
-  const fileName = path.replace(/^.*[\\/]/, '');
+  const fileName = escapeControls(path.replace(/^.*[\\/]/, ''));
   const diagnostics = [{ ...problem, file: fileName }];
   return {
     fileName,
