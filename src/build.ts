@@ -4,13 +4,22 @@
  * and the write edge (a staging folder swapped in at the end). Sessions are written to the
  * staging folder in file order as they finish, so memory stays flat on a large archive.
  */
-import { readdirSync, readFileSync, statSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
+import {
+  closeSync,
+  fstatSync,
+  openSync,
+  readdirSync,
+  readFileSync,
+  readSync,
+  realpathSync,
+  statSync,
+} from 'node:fs';
+import { dirname, isAbsolute, join, relative, resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { programFingerprint } from './cache/fingerprint.js';
 import { contextKey, sessionKey } from './cache/key.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
-import type { Diagnostic } from './diagnostics.js';
+import { type Diagnostic, escapeControls } from './diagnostics.js';
 import type { Catalog } from './lines/types.js';
 import { autoJobs, runPool } from './parallel/pool.js';
 import type { TaskMessage } from './parallel/protocol.js';
@@ -25,7 +34,9 @@ import {
   type SiteSettings,
 } from './report/site.js';
 import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
+import { SESSION_LIMITS } from './session/limits.js';
 import type { InstrumentSpec } from './session/types.js';
+import { checkBuildTargets } from './write/guard.js';
 import { readManifest, verifiedFiles, writeManifest } from './write/manifest.js';
 import { openStaging } from './write/writeSite.js';
 
@@ -42,6 +53,8 @@ export interface BuildOptions {
   jobs?: number | 'auto';
   /** The cache folder; null builds everything afresh and keeps no cache. */
   cacheDir?: string | null;
+  /** The folder of lineledger.yaml, when one is used: never replaced by the site. */
+  configDir?: string | null;
   /** fsync every file and folder before the swap (survives a power cut; slower). */
   durable?: boolean;
   /** Told of every session as it is placed in the site. */
@@ -92,11 +105,140 @@ export function loadTemplates(dir: string = templatesDir()): Templates {
   return compileTemplates(readTemplateTexts(dir));
 }
 
+/** The session file names of a folder (links included: each is checked when read). */
 export function listSessionFiles(dir: string): string[] {
-  return readdirSync(dir)
-    .filter((n) => /\.ya?ml$/i.test(n) && statSync(join(dir, n)).isFile())
+  return readdirSync(dir, { withFileTypes: true })
+    .filter((e) => /\.ya?ml$/i.test(e.name) && !e.isDirectory())
+    .map((e) => e.name)
     .sort()
     .map((n) => join(dir, n));
+}
+
+/** A session file's bytes, or the one problem that stops it being read. */
+export type SessionInput = { path: string; bytes: Uint8Array } | { path: string; problem: Diagnostic };
+
+function inputProblem(path: string, code: string, message: string, hint: string): SessionInput {
+  return {
+    path,
+    problem: { file: path, line: 1, col: 1, severity: 'error', code, field: '', message, hint },
+  };
+}
+
+/**
+ * Reads one session file at the edge, safely: a link to nothing, a loop of links or a link
+ * leaving `root` (the sessions folder; null: follow any) is a problem of that file; the size
+ * is checked on the open file before a byte is read, and no more than the limit is read.
+ * Returns null for what is no file at all (a folder named x.yaml), which is skipped as before.
+ */
+export function readSessionInput(
+  path: string,
+  root: string | null,
+  maxBytes: number = SESSION_LIMITS.maxBytes,
+): SessionInput | null {
+  // A name that could drive the terminal or the page is refused before anything is read.
+  const name = path.replace(/^.*[\\/]/, '');
+  if (escapeControls(name) !== name)
+    return inputProblem(
+      path,
+      'control-character',
+      'the file name holds control characters',
+      'rename the file to plain letters, digits and dashes',
+    );
+  let real: string;
+  try {
+    real = realpathSync(path);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === 'ELOOP')
+      return inputProblem(
+        path,
+        'link-loop',
+        'is a symbolic link that leads round in a loop',
+        'point the link at a session file, or remove it',
+      );
+    if (code === 'ENOENT')
+      return inputProblem(
+        path,
+        'broken-link',
+        'is a symbolic link to a file that does not exist',
+        'point the link at a session file, or remove it',
+      );
+    return inputProblem(
+      path,
+      'unreadable',
+      `cannot be read (${code ?? 'error'})`,
+      'check the file and its permissions',
+    );
+  }
+  if (root !== null) {
+    const base = realpathSync(root);
+    const rel = relative(base, real);
+    if (rel === '' || rel === '..' || rel.startsWith(`..${sep}`) || isAbsolute(rel))
+      return inputProblem(
+        path,
+        'link-outside',
+        `is a symbolic link to ${real}, outside the sessions folder; it is not read`,
+        'copy the file into the sessions folder instead of linking to it',
+      );
+  }
+  let fd: number;
+  try {
+    const s = statSync(real);
+    if (s.isDirectory()) return null;
+    // A FIFO or device would block or never end: only regular files are opened.
+    if (!s.isFile())
+      return inputProblem(path, 'not-a-file', 'is not a regular file', 'session files are plain text files');
+    fd = openSync(real, 'r');
+  } catch (e) {
+    return inputProblem(
+      path,
+      'unreadable',
+      `cannot be read (${(e as NodeJS.ErrnoException).code ?? 'error'})`,
+      'check the file and its permissions',
+    );
+  }
+  try {
+    const size = fstatSync(fd).size;
+    const tooLarge = (n: number) =>
+      inputProblem(
+        path,
+        'file-too-large',
+        `the file is ${n} bytes; the limit is ${maxBytes} bytes`,
+        'a session is a few kilobytes: split it into several sessions, or move long notes elsewhere',
+      );
+    if (size > maxBytes) return tooLarge(size);
+    // One byte more than the limit: a file that grew since fstat is still caught.
+    const buf = Buffer.alloc(Math.min(size, maxBytes) + 1);
+    let got = 0;
+    for (let n = 1; n > 0 && got < buf.length; got += n) n = readSync(fd, buf, got, buf.length - got, got);
+    if (got > maxBytes) return tooLarge(got);
+    return { path, bytes: new Uint8Array(buf.buffer, buf.byteOffset, got) };
+  } catch (e) {
+    return inputProblem(
+      path,
+      'unreadable',
+      `cannot be read (${(e as NodeJS.ErrnoException).code ?? 'error'})`,
+      'check the file and its permissions',
+    );
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** The unit of a file that could not be read: it fails with its one problem, the rest build. */
+function unreadableUnit(path: string, problem: Diagnostic): SessionUnit {
+  const fileName = escapeControls(path.replace(/^.*[\\/]/, ''));
+  const diagnostics = [{ ...problem, file: fileName }];
+  return {
+    fileName,
+    ok: false,
+    id: null,
+    headline: null,
+    diagnostics,
+    warnings: [],
+    part: { files: [], row: failedRow(fileName, null, diagnostics), overview: [] },
+    charts: [],
+  };
 }
 
 function duplicateId(file: string, id: string, first: string): Diagnostic {
@@ -112,9 +254,35 @@ function duplicateId(file: string, id: string, first: string): Diagnostic {
   };
 }
 
+/** 10000-01-01T00:00:00Z in seconds: a build date has four digits of year. */
+const EPOCH_LIMIT_S = 253_402_300_800;
+
+/**
+ * SOURCE_DATE_EPOCH (seconds since 1970, digits only, as `date +%s` prints it) → the build
+ * date, or why it was ignored. Never throws: a bad value only loses the date.
+ */
+export function readSourceDateEpoch(epoch: string | undefined): {
+  builtOn: string | null;
+  problem: string | null;
+} {
+  if (epoch === undefined || epoch === '') return { builtOn: null, problem: null };
+  const shown = JSON.stringify(epoch.length > 40 ? `${epoch.slice(0, 40)}…` : epoch);
+  if (!/^\d+$/.test(epoch))
+    return {
+      builtOn: null,
+      problem: `SOURCE_DATE_EPOCH=${shown} is not a whole number of seconds since 1970 (digits only); ignored, so the pages carry no build date`,
+    };
+  const seconds = Number(epoch);
+  if (!(seconds < EPOCH_LIMIT_S))
+    return {
+      builtOn: null,
+      problem: `SOURCE_DATE_EPOCH=${shown} is after the year 9999; ignored, so the pages carry no build date`,
+    };
+  return { builtOn: new Date(seconds * 1000).toISOString().slice(0, 10), problem: null };
+}
+
 export function builtOnFromEpoch(epoch: string | undefined): string | null {
-  if (!epoch || !/^\d+$/.test(epoch)) return null;
-  return new Date(Number(epoch) * 1000).toISOString().slice(0, 10);
+  return readSourceDateEpoch(epoch).builtOn;
 }
 
 export async function buildSite(
@@ -122,8 +290,20 @@ export async function buildSite(
   catalog: Catalog,
   templateTexts: TemplateTexts = readTemplateTexts(),
 ): Promise<BuildReport> {
-  const paths = listSessionFiles(options.inputDir);
-  const inputs = paths.map((p) => ({ path: p, bytes: readFileSync(p) as Uint8Array }));
+  const cacheDir = options.cacheDir === undefined ? defaultCacheDir(options.outDir) : options.cacheDir;
+  // Before anything is read or written: the site and cache folders must be ours to replace.
+  checkBuildTargets({
+    inputDir: options.inputDir,
+    outDir: options.outDir,
+    cacheDir,
+    configDir: options.configDir ?? null,
+    manifestPaths: [...new Set([cacheDir, defaultCacheDir(options.outDir)].filter((d) => d !== null))].map(
+      (d) => join(d, 'site-manifest.json'),
+    ),
+  });
+  const inputs = listSessionFiles(options.inputDir)
+    .map((p) => readSessionInput(p, options.inputDir))
+    .filter((i) => i !== null);
   options.onStart?.(inputs.length);
   const templates = compileTemplates(templateTexts);
   const builtOn = builtOnFromEpoch(options.sourceDateEpoch);
@@ -138,7 +318,6 @@ export async function buildSite(
     builtOn,
   };
 
-  const cacheDir = options.cacheDir === undefined ? defaultCacheDir(options.outDir) : options.cacheDir;
   const fingerprint = programFingerprint();
   const store = cacheDir === null ? null : new SessionStore(cacheDir, fingerprint);
   const charts = new ChartStore(store ? store.chartDir : null);
@@ -152,14 +331,18 @@ export async function buildSite(
     builtOn,
     instrumentDefaults,
   });
-  const keys = inputs.map((i) => sessionKey(context, i.path.replace(/^.*[\\/]/, ''), i.bytes));
+  // Unreadable files have no key: they are never cached.
+  const keys = inputs.map((i) =>
+    'bytes' in i ? sessionKey(context, i.path.replace(/^.*[\\/]/, ''), i.bytes) : '',
+  );
   // A session is either computed in this build or known from the cache by its head.
   type Known = { unit: SessionUnit; head?: undefined } | { unit?: undefined; head: UnitHead };
-  const units: (Known | undefined)[] = keys.map((k) => {
-    const head = store?.get(k);
+  const units: (Known | undefined)[] = inputs.map((input, i) => {
+    if ('problem' in input) return { unit: unreadableUnit(input.path, input.problem) };
+    const head = store?.get(keys[i] as string);
     return head ? { head } : undefined;
   });
-  const fromCache = units.map((u) => u !== undefined);
+  const fromCache = units.map((u) => u?.head !== undefined);
   const times: (number | null)[] = units.map(() => null);
 
   const manifestPath = store ? join(store.dir, 'site-manifest.json') : null;
@@ -221,7 +404,8 @@ export async function buildSite(
 
   const todo: TaskMessage[] = [];
   inputs.forEach((input, index) => {
-    if (!fromCache[index]) todo.push({ index, path: input.path, bytes: input.bytes });
+    if (units[index] === undefined && 'bytes' in input)
+      todo.push({ index, path: input.path, bytes: input.bytes });
   });
   const jobs = options.jobs === undefined || options.jobs === 'auto' ? autoJobs(todo.length) : options.jobs;
 

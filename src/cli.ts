@@ -50,8 +50,13 @@ export async function main(argv: string[]): Promise<number> {
   return code;
 }
 
+/** Exit once stdout and stderr are flushed: a pipe takes large output in pieces, and exiting at once cut it off. */
+function exitAfterFlush(code: number): void {
+  process.stdout.write('', () => process.stderr.write('', () => process.exit(code)));
+}
+
 main(process.argv).then(
-  (code) => process.exit(code),
+  (code) => exitAfterFlush(code),
   (e: unknown) => {
     process.stderr.write(`lineledger: internal error: ${(e as Error).stack ?? String(e)}\n`);
     process.exit(EXIT_CANNOT_RUN);

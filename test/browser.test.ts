@@ -91,7 +91,8 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
       'lineledger: 1\ntitle: "<script>alert(1)</script> & \\"q\\""\nlines:\n  - { wavelength: 589.0, label: "<img src=x onerror=alert(2)>" }\n' +
         'notes: |\n  <script>alert(3)</script>\n\n  <img src=x onerror=alert(4)> [x](javascript:alert(5))\n\n  <iframe src="https://example.org"></iframe>\n\n  <svg onload=alert(6)></svg>\n',
     );
-    const out = join(dir, 'site');
+    // Beside the sessions folder: a site inside it is refused.
+    const out = join(mkdtempSync(join(tmpdir(), 'll-hostile-out-')), 'site');
     const r = spawnSync(
       process.execPath,
       [resolve('dist/cli.js'), 'build', dir, '--out', out, '--no-cache'],

@@ -99,7 +99,8 @@ describe('bad input', () => {
     join(dir, 'hostile.yaml'),
     'lineledger: 1\ntitle: "<b>x</b> & \\"q\\""\nlines:\n  - { wavelength: 589.0, label: "<img src=x onerror=alert(1)>" }\nnotes: |\n  <script>alert(1)</script>\n\n  Text <img src=x onerror=alert(1)> [link](javascript:alert(1))\n\n  <iframe src="https://example.org"></iframe>\n',
   );
-  const out = join(dir, 'out');
+  // Beside the sessions folder: a site inside it is refused.
+  const out = join(mkdtempSync(join(tmpdir(), 'll-bad-out-')), 'out');
   const r = run(['build', dir, '--out', out]);
 
   it('reports each bad file with file:line:col and still builds the others', () => {

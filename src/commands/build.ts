@@ -2,9 +2,11 @@
 import { type FSWatcher, watch } from 'node:fs';
 import { basename, dirname, resolve } from 'node:path';
 import type { Command } from 'commander';
-import { buildSite } from '../build.js';
+import { buildSite, readSessionInput, readSourceDateEpoch } from '../build.js';
+import { escapeControls } from '../diagnostics.js';
 import { createProgress, type Verbosity } from '../progress/reporter.js';
 import { PROGRAM_VERSION } from '../version.js';
+import { TargetRefused } from '../write/guard.js';
 import {
   CommandFailure,
   EXIT_CANNOT_RUN,
@@ -13,7 +15,6 @@ import {
   loadCatalogFor,
   loadConfig,
   printDiagnostics,
-  readTextOrUndefined,
 } from './common.js';
 
 interface BuildFlags {
@@ -58,6 +59,8 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
     isTTY: process.stderr.isTTY === true,
     verbosity,
   });
+  const epoch = readSourceDateEpoch(process.env.SOURCE_DATE_EPOCH);
+  if (epoch.problem) process.stderr.write(`lineledger: warning: ${escapeControls(epoch.problem)}\n`);
   const started = performance.now();
   const report = await buildSite(
     {
@@ -74,17 +77,21 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
       jobs: parseJobs(opts.jobs),
       durable: opts.fsync === true,
       cacheDir: opts.cache === false ? null : opts.cacheDir ? resolve(opts.cacheDir) : undefined,
+      configDir: config.file ? dirname(resolve(config.file)) : null,
       onStart: (n) => progress.start(n),
       onSession: (e) => progress.session(e),
     },
     catalog,
   )
     .catch((e: Error) => {
+      if (e instanceof TargetRefused) throw new CommandFailure(e.message);
       throw new CommandFailure(`build failed: ${e.message}`);
     })
     .finally(() => progress.finish());
   for (const s of report.sessions) {
-    const text = readTextOrUndefined(s.file);
+    // The same safe read as the build (no huge file, no link out of the folder) for the source lines.
+    const input = readSessionInput(s.file, dir);
+    const text = input && 'bytes' in input ? Buffer.from(input.bytes).toString('utf8') : undefined;
     if (!s.ok) printDiagnostics(s.diagnostics, text);
     else if (!opts.quiet) printDiagnostics(s.warnings, text);
   }

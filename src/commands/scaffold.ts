@@ -10,6 +10,7 @@ import { safeIdFromFileName } from '../session/read.js';
 import { schemaReference, sessionTemplate } from '../session/scaffold.js';
 import { METHODS } from '../session/schema.js';
 import type { MeasurementMethod } from '../session/types.js';
+import { checkFileTarget } from '../write/guard.js';
 import { CommandFailure, EXIT_OK, EXIT_PROBLEMS } from './common.js';
 
 /** The package's own folder (this file is dist/commands/scaffold.js or src/commands/scaffold.ts). */
@@ -32,6 +33,9 @@ function scaffold(file: string, opts: { method: MeasurementMethod; force?: boole
       `${file} already exists; choose another name, or add --force to replace it`,
       EXIT_PROBLEMS,
     );
+  // --force replaces a session file, never a folder or what a link points to.
+  const refused = opts.force ? checkFileTarget(file, [], true) : null;
+  if (refused) throw new CommandFailure(refused);
   const root = packageRoot();
   const text = sessionTemplate({
     method: opts.method,

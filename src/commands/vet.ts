@@ -4,16 +4,24 @@
  * and groups are checked against the catalog. Exit 0 when no file has errors (warnings are
  * printed but allowed), 1 when some file has, 2 when the check could not run.
  */
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
-import { compareDiagnostics, type Diagnostic, formatDiagnosticWithSource } from '../diagnostics.js';
+import { readSessionInput } from '../build.js';
+import { compareDiagnostics, type Diagnostic } from '../diagnostics.js';
 import { candidateSpecies } from '../identify/candidates.js';
 import type { Catalog } from '../lines/types.js';
 import { reduceSession } from '../reduce/reduce.js';
 import { type ReadOptions, readSessionText } from '../session/read.js';
 import { parseFieldName, parseYamlSource } from '../session/yamlSource.js';
-import { CommandFailure, EXIT_OK, EXIT_PROBLEMS, loadCatalogFor, loadConfig } from './common.js';
+import {
+  CommandFailure,
+  EXIT_OK,
+  EXIT_PROBLEMS,
+  loadCatalogFor,
+  loadConfig,
+  printDiagnostics,
+} from './common.js';
 
 export interface VetResult {
   file: string;
@@ -86,10 +94,16 @@ export function markDuplicateIds(results: VetResult[]): VetResult[] {
 
 const SESSION_FILE = /\.ya?ml$/i;
 
+/** A file to check, with the folder its links must stay inside (null: a file named by the user). */
+export interface VetFile {
+  path: string;
+  root: string | null;
+}
+
 /** The files to check: named files as given, folders' *.yaml / *.yml (deeper with recursive). */
-export function collectFiles(paths: readonly string[], recursive: boolean): string[] {
-  const out: string[] = [];
-  const walk = (dir: string) => {
+export function collectFiles(paths: readonly string[], recursive: boolean): VetFile[] {
+  const out: VetFile[] = [];
+  const walk = (dir: string, root: string) => {
     let entries: import('node:fs').Dirent[];
     try {
       entries = readdirSync(dir, { withFileTypes: true });
@@ -99,8 +113,8 @@ export function collectFiles(paths: readonly string[], recursive: boolean): stri
     for (const e of entries.sort((a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : 0))) {
       const p = join(dir, e.name);
       if (e.isDirectory()) {
-        if (recursive && !e.name.startsWith('.') && e.name !== 'node_modules') walk(p);
-      } else if (SESSION_FILE.test(e.name) && statSync(p).isFile()) out.push(p);
+        if (recursive && !e.name.startsWith('.') && e.name !== 'node_modules') walk(p, root);
+      } else if (SESSION_FILE.test(e.name)) out.push({ path: p, root });
     }
   };
   for (const path of paths) {
@@ -110,8 +124,8 @@ export function collectFiles(paths: readonly string[], recursive: boolean): stri
     } catch {
       throw new CommandFailure(`cannot find ${path}`);
     }
-    if (isDir) walk(path);
-    else out.push(path);
+    if (isDir) walk(path, path);
+    else out.push({ path, root: null });
   }
   return out;
 }
@@ -141,15 +155,15 @@ function vet(paths: string[], opts: VetFlags): number {
   const config = loadConfig(opts.config);
   const catalog = loadCatalogFor(config);
   const texts = new Map<string, Uint8Array>();
-  for (const file of files) {
-    try {
-      texts.set(file, readFileSync(file));
-    } catch (e) {
-      throw new CommandFailure(`cannot read ${file}: ${(e as Error).message}`);
-    }
-  }
   const results = markDuplicateIds(
-    files.map((f) => vetSession(f, texts.get(f)!, catalog, { instrumentDefaults: config.defaultInstrument })),
+    files.flatMap(({ path, root }): VetResult[] => {
+      // The same safe read as the build: links checked, size checked before reading.
+      const input = readSessionInput(path, root);
+      if (input === null) return [];
+      if ('problem' in input) return [{ file: path, ok: false, id: null, diagnostics: [input.problem] }];
+      texts.set(path, input.bytes);
+      return [vetSession(path, input.bytes, catalog, { instrumentDefaults: config.defaultInstrument })];
+    }),
   );
   if (format === 'json') {
     const clean = results.filter((r) => r.ok).length;
@@ -168,8 +182,9 @@ function vet(paths: string[], opts: VetFlags): number {
     process.stdout.write(`${JSON.stringify(document, null, 2)}\n`);
   } else {
     for (const r of results) {
-      const text = new TextDecoder().decode(texts.get(r.file)!).replace(/^\ufeff/, '');
-      for (const d of r.diagnostics) process.stderr.write(`${formatDiagnosticWithSource(d, text)}\n`);
+      const bytes = texts.get(r.file);
+      const text = bytes ? new TextDecoder().decode(bytes).replace(/^\ufeff/, '') : undefined;
+      printDiagnostics(r.diagnostics, text);
     }
     process.stderr.write(`${summaryLine(results)}\n`);
   }

@@ -287,3 +287,18 @@ function checkExpansion(
     ];
   return [];
 }
+
+/**
+ * Bounds of a reading that could come from an optical grating (common practice, not a law):
+ * below 1 nm is X-ray crystal territory, above 1 mm is radio; nothing a session records lies
+ * outside. They catch a typo'd exponent (1e29, 1e-320) before it becomes a result.
+ */
+export const READING_BOUNDS = {
+  minWavelength_nm: 1,
+  maxWavelength_nm: 1e6,
+  /**
+   * Largest redshift accepted. The most distant galaxies with measured lines lie near z ≈ 14
+   * (from memory); 20 leaves room and still stops a slip such as 1e300.
+   */
+  maxRedshift: 20,
+} as const;

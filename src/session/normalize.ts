@@ -5,6 +5,7 @@
 import { createHash } from 'node:crypto';
 import type { Diagnostic, SourcePosition } from '../diagnostics.js';
 import { parseAngleDeg, parseDeclinationDeg, parseRightAscensionDeg } from './angles.js';
+import { checkLineKeys, checkShift, checkValues, checkWavelengths, impossibleDate } from './plausible.js';
 import { INTENSITY_WORDS, type LineDocument, type SessionDocument, SOURCE_CLASS_KIND } from './schema.js';
 import type {
   BarycentricRequest,
@@ -30,15 +31,22 @@ const ALL_POSITION_KEYS = Object.values(POSITION_KEYS).flat();
 
 const ABSORPTION_SOURCES = new Set(['star']);
 
+/**
+ * A file name's id: lower-case letters, digits and dashes. A name with none of those
+ * (`日本語.yaml`, `🙂.yaml`, `..yaml`) gets `session-` and a hash of the name, so such files
+ * stay apart. Backslashes separate folders only in Windows paths (a drive or UNC prefix, or
+ * on Windows); elsewhere `a\b.yaml` is one name.
+ */
 export function sessionIdFromFileName(fileName: string): string {
-  const base = fileName.replace(/^.*[\\/]/, '').replace(/\.ya?ml$/i, '');
+  const windows = process.platform === 'win32' || /^([A-Za-z]:)?\\/.test(fileName);
+  const base = fileName.replace(windows ? /^.*[\\/]/ : /^.*\//, '').replace(/\.ya?ml$/i, '');
   const id = base
     .toLowerCase()
     .replace(/[^a-z0-9-]+/g, '-')
     .replace(/-+/g, '-')
     .replace(/^-|-$/g, '')
     .slice(0, 80);
-  return id || 'session';
+  return id || `session-${createHash('sha256').update(base).digest('hex').slice(0, 8)}`;
 }
 
 export function normalizeSession(
@@ -60,6 +68,13 @@ export function normalizeSession(
       hint,
     });
   };
+
+  checkValues(doc, problem);
+  checkWavelengths(doc, problem);
+  checkShift(doc, problem);
+  const badDate = doc.date === undefined ? null : impossibleDate(doc.date);
+  if (badDate)
+    problem(['date'], 'invalid-date', `no such date: ${badDate}`, 'write the date the session was taken');
 
   const sourceClass = doc.source?.class;
   if (sourceClass !== undefined && doc.source && SOURCE_CLASS_KIND[sourceClass] !== doc.source.kind) {
@@ -326,6 +341,7 @@ function readLine(
   problem: Problem,
 ): RawLine {
   const at: FieldPath = ['lines', index];
+  checkLineKeys(line, at, problem);
   const wanted = POSITION_KEYS[method];
   const present = ALL_POSITION_KEYS.filter((k) => line[k] !== undefined);
   for (const k of present) {

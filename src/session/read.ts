@@ -237,5 +237,18 @@ export function readSessionText(
   const named = document.id === undefined ? { ...document, id: safeIdFromFileName(file) } : document;
   const normalized = normalizeSession(named, source, file, bytes, options.instrumentDefaults ?? null);
   if (!normalized.session) return { ok: false, diagnostics: normalized.diagnostics };
-  return { ok: true, value: normalized.session, warnings: normalized.diagnostics };
+  const warnings = [...normalized.diagnostics];
+  // A name without a letter or digit an id can hold: the id is made up, so say which.
+  if (document.id === undefined && /^session-[0-9a-f]{8}$/.test(named.id ?? ''))
+    warnings.unshift({
+      file,
+      line: 1,
+      col: 1,
+      severity: 'warning',
+      code: 'default-id',
+      field: 'id',
+      message: `the file name has no letters or digits an id can hold, so this session's id is ${named.id}`,
+      hint: `add id: ${named.id} (or one of your own) to keep it`,
+    });
+  return { ok: true, value: normalized.session, warnings };
 }
