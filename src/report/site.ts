@@ -2,7 +2,7 @@
  * The render stage: processed sessions → the site's files (paths relative to the output
  * folder, contents as strings). Pure apart from chart rendering, which is deterministic.
  */
-import { type Diagnostic, formatDiagnosticLine } from '../diagnostics.js';
+import type { Diagnostic } from '../diagnostics.js';
 import type { Catalog } from '../lines/types.js';
 import type { SessionOutcome } from '../pipeline.js';
 import { GENERAL_CAUTION } from './cautions.js';
@@ -14,6 +14,7 @@ import { renderNotes } from './notes.js';
 import { buildResult } from './result.js';
 import { sessionPageModel } from './sessionPage.js';
 import type { Templates } from './templates.js';
+import { plainProblem } from './wording.js';
 
 export interface SiteFile {
   path: string;
@@ -102,7 +103,7 @@ export function failedRow(
     explanation: 'not built: see the problems below',
     confidence: '—',
     status: 'failed',
-    diagnostics: diagnostics.map((d) => formatDiagnosticLine({ ...d, file: fileName })),
+    diagnostics: diagnostics.map((d) => plainProblem(d)),
   };
 }
 
@@ -133,7 +134,7 @@ export async function renderSessionPart(
       identification,
       result,
       catalog,
-      warnings: outcome.warnings.map((d) => formatDiagnosticLine({ ...d, file: fileName })),
+      warnings: outcome.warnings.map((d) => plainProblem(d)),
       buildOptions: ctx.buildOptions,
       programVersion: ctx.programVersion,
     },
