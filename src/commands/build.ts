@@ -73,6 +73,7 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
       sourceDateEpoch: process.env.SOURCE_DATE_EPOCH,
       jobs: parseJobs(opts.jobs),
       durable: opts.fsync === true,
+      pdf: opts.pdf === true,
       cacheDir: opts.cache === false ? null : opts.cacheDir ? resolve(opts.cacheDir) : undefined,
       onStart: (n) => progress.start(n),
       onSession: (e) => progress.session(e),

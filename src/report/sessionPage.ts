@@ -28,6 +28,8 @@ export interface SessionPageInput {
   warnings: string[];
   buildOptions: string;
   programVersion: string;
+  /** Link record.pdf (only builds run with --pdf write one). */
+  pdfLink?: boolean;
 }
 
 function instrumentText(s: Session): string {
@@ -214,7 +216,7 @@ export async function sessionPageModel(
       wavelength: fixed(medium === 'air' ? d.air_nm : d.vacuum_nm, 2),
     })),
     warnings: input.warnings,
-    cautions: cautionsFor(session.source.kind),
+    cautions: cautionsFor(session.source.kind, session.source.class),
     reduction: reduction.description,
     shift,
     lines: reduction.lines.map((l) => ({
@@ -292,6 +294,7 @@ export async function sessionPageModel(
     inputFile: result.input.file,
     inputSha256: result.input.sha256,
     buildOptions: input.buildOptions,
+    pdfLink: input.pdfLink === true,
     sources,
   };
 }

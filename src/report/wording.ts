@@ -80,11 +80,25 @@ export function foundShiftText(f: ShiftFound, kind: SourceKind): string {
   return `Found by trying shifts across the session's range: ${what}, from ${f.lines_used} matched lines.${bary}${warning}`;
 }
 
+/**
+ * Advice that fits the source: a laser gives one line and a flame test a few, so "measure
+ * more lines" is advice those sessions cannot follow.
+ */
+function adviceFor(d: Diagnostic, kind: SourceKind | null): string | undefined {
+  if (d.code !== 'few-lines') return d.hint;
+  if (kind === 'laser')
+    return 'a laser gives a single line, so this is expected: compare it with the wavelength the laser is rated for';
+  if (kind === 'flame')
+    return 'a flame test shows only a few lines: repeat it with a known salt of the same metal beside it to confirm';
+  return d.hint;
+}
+
 /** A problem told to a reader of the page: where in the session file, what, what to do. */
-export function plainProblem(d: Diagnostic): string {
+export function plainProblem(d: Diagnostic, kind: SourceKind | null = null): string {
+  const advice = adviceFor(d, kind);
   const where = d.line > 0 ? `Line ${d.line} of the session file: ` : '';
   const message = d.message.charAt(0).toUpperCase() + d.message.slice(1);
-  const hint = d.hint ? ` ${d.hint.charAt(0).toUpperCase()}${d.hint.slice(1)}` : '';
+  const hint = advice ? ` ${advice.charAt(0).toUpperCase()}${advice.slice(1)}` : '';
   const end = (s: string) => (/[.!?]$/.test(s) ? s : `${s}.`);
   return `${where}${end(message)}${hint ? end(hint) : ''}`;
 }
