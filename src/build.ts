@@ -61,6 +61,8 @@ export interface BuildOptions {
   onSession?: (event: SessionEvent) => void;
   /** Told the number of sessions once they are listed. */
   onStart?: (total: number) => void;
+  /** The build will print record.pdf files (build --pdf), so pages link them. */
+  pdf?: boolean;
 }
 
 /** What the command line needs of each session: diagnostics carry the file's full path. */
@@ -307,7 +309,7 @@ export async function buildSite(
   options.onStart?.(inputs.length);
   const templates = compileTemplates(templateTexts);
   const builtOn = builtOnFromEpoch(options.sourceDateEpoch);
-  const buildOptions = 'lineledger build (default options)';
+  const buildOptions = options.pdf ? 'lineledger build --pdf' : 'lineledger build (default options)';
   const instrumentDefaults = options.instrumentDefaults ?? null;
   const ctx: RenderContext = {
     catalog,
@@ -316,6 +318,7 @@ export async function buildSite(
     programVersion: options.programVersion,
     buildOptions,
     builtOn,
+    pdfLinks: options.pdf === true,
   };
 
   const fingerprint = programFingerprint();

@@ -84,6 +84,37 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     await tab.close();
   });
 
+  // A phone held upright is about 400 CSS px wide: nothing may widen the page past it (wide
+  // tables scroll inside their own box), and no reading or date breaks over several lines.
+  it.each(pages)('%s fits a 400 px wide screen', async (page) => {
+    const tab = await browser.newPage({ viewport: { width: 400, height: 800 } });
+    await tab.goto(pathToFileURL(join(SITE, page)).href);
+    const fit = await tab.evaluate(() => {
+      const d = globalThis as unknown as {
+        document: {
+          documentElement: { scrollWidth: number };
+          querySelectorAll: (s: string) => { getClientRects: () => { length: number } }[];
+        };
+      };
+      // Lines an inline element takes: one client rect per line box.
+      const mostLines = (sel: string) =>
+        Math.max(0, ...[...d.document.querySelectorAll(sel)].map((e) => e.getClientRects().length));
+      return {
+        width: d.document.documentElement.scrollWidth,
+        reading: mostLines('span.reading'),
+        time: mostLines('time'),
+      };
+    });
+    expect(fit.width).toBeLessThanOrEqual(400);
+    expect(fit.reading).toBeLessThanOrEqual(1);
+    expect(fit.time).toBeLessThanOrEqual(1);
+    await tab.screenshot({
+      path: join(ARTIFACTS, `phone-${page.replace(/\//g, '_').replace('.html', '.png')}`),
+      fullPage: true,
+    });
+    await tab.close();
+  });
+
   it('runs no script from hostile notes, titles or labels', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'll-hostile-'));
     writeFileSync(

@@ -76,6 +76,7 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
       sourceDateEpoch: process.env.SOURCE_DATE_EPOCH,
       jobs: parseJobs(opts.jobs),
       durable: opts.fsync === true,
+      pdf: opts.pdf === true,
       cacheDir: opts.cache === false ? null : opts.cacheDir ? resolve(opts.cacheDir) : undefined,
       configDir: config.file ? dirname(resolve(config.file)) : null,
       onStart: (n) => progress.start(n),

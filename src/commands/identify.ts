@@ -2,8 +2,9 @@
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { runSession } from '../pipeline.js';
-import { fixed, percent, probability } from '../report/format.js';
+import { display, fixed, percent, probability } from '../report/format.js';
 import { buildResult, type ResultJson } from '../report/result.js';
+import { evidenceWords } from '../report/wording.js';
 import { PROGRAM_VERSION } from '../version.js';
 import {
   EXIT_CANNOT_RUN,
@@ -19,19 +20,29 @@ export function formatRanking(title: string, id: string, result: ResultJson): st
   out.push(`${title} (${id})`);
   out.push(`  ${result.summary}`);
   out.push('');
-  out.push('  rank  species        score  confidence  matched/expected  false alarm');
-  result.candidates.slice(0, 8).forEach((c, i) => {
+  // The result's confidence is in the summary (as on the page); species get evidence words.
+  const shown = result.candidates.filter(
+    (c) => result.explanation.species.includes(c.species) || (c.matched > 0 && c.score > 0),
+  );
+  out.push('  rank  species        score  evidence     matched/expected  chance match');
+  shown.slice(0, 8).forEach((c, i) => {
     out.push(
-      `  ${String(i + 1).padStart(4)}  ${c.display.padEnd(12)} ${fixed(c.score, 1).padStart(7)}  ${percent(c.confidence).padStart(10)}  ${`${c.matched}/${c.expected}`.padStart(16)}  ${probability(c.false_alarm).padStart(11)}`,
+      `  ${String(i + 1).padStart(4)}  ${c.display.padEnd(12)} ${fixed(c.score, 1).padStart(7)}  ${evidenceWords(c.score).padEnd(11)}  ${`${c.matched}/${c.expected}`.padStart(16)}  ${probability(c.false_alarm).padStart(12)}`,
     );
   });
+  const others = result.candidates.length - Math.min(8, shown.length);
+  if (others > 0) out.push(`  (${others} other species tried; all are in --json)`);
   out.push('');
-  out.push(`  line  wavelength (${result.medium} nm)  status       assignment`);
+  const frame = result.lines.some((l) => Math.abs(l.rest_vacuum_nm - l.vacuum_nm) > 1e-9) ? 'rest ' : '';
+  out.push(
+    `  line  wavelength (${frame}${result.medium} nm)  status       reference (${frame}${result.medium} nm, residual)`,
+  );
   for (const l of result.lines) {
     const a = l.assignment;
-    const shown = result.medium === 'air' ? l.air_nm : l.vacuum_nm;
+    // Rest frame, like the reference it is compared with (equal to observed without a shift).
+    const lineNm = display(l.rest_vacuum_nm, result.medium);
     out.push(
-      `  ${String(l.index + 1).padStart(4)}  ${fixed(shown, 3).padStart(19)}  ${l.status.padEnd(11)}  ${a ? `${a.display} ${fixed(a.ref_vacuum_nm, 3)} vac (${fixed(a.residual_nm, 3)} nm, ${percent(l.probability)})` : '—'}`,
+      `  ${String(l.index + 1).padStart(4)}  ${fixed(lineNm, 3).padStart(19)}  ${l.status.padEnd(11)}  ${a ? `${a.display} ${fixed(display(a.ref_vacuum_nm, result.medium), 3)} (${a.residual_nm >= 0 ? '+' : ''}${fixed(a.residual_nm, 3)} nm${l.status === 'tentative' ? `, ${percent(l.probability)}` : ''})` : '—'}`,
     );
   }
   return out.join('\n');

@@ -20,6 +20,28 @@ export function findChromium(env: NodeJS.ProcessEnv = process.env): string | nul
   return CANDIDATE_BROWSERS.find((p) => existsSync(p)) ?? null;
 }
 
+function escapeHtml(s: string): string {
+  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+}
+
+/**
+ * Chromium's own running header and footer (CSS @page margin boxes are not printed by it):
+ * the session and the archive on top, the page number and the session id below. Chromium
+ * fills the spans of class pageNumber and totalPages itself.
+ */
+export function runningTemplates(
+  session: string,
+  archive: string,
+  id: string,
+): { header: string; footer: string } {
+  const style =
+    'font-family: DejaVu Sans, Arial, sans-serif; font-size: 8px; color: #444; width: 100%; margin: 0 14mm; display: flex; justify-content: space-between;';
+  return {
+    header: `<div style="${style}"><span>${escapeHtml(session)}</span><span>${escapeHtml(archive)}</span></div>`,
+    footer: `<div style="${style}"><span>${escapeHtml(id)}</span><span>Page <span class="pageNumber"></span> of <span class="totalPages"></span></span></div>`,
+  };
+}
+
 export interface PdfResult {
   written: string[];
   problems: string[];
@@ -52,7 +74,21 @@ export async function printRecords(
       try {
         await page.goto(pathToFileURL(html).href);
         const target = join(siteDir, 'sessions', id, 'record.pdf');
-        await page.pdf({ path: target, format, printBackground: false, margin: { top: '0', bottom: '0' } });
+        const names = {
+          session: ((await page.textContent('h1')) ?? '').trim(),
+          archive: ((await page.textContent('header.site a')) ?? '').trim(),
+        };
+        const running = runningTemplates(names.session, names.archive, id);
+        await page.pdf({
+          path: target,
+          format,
+          printBackground: false,
+          displayHeaderFooter: true,
+          headerTemplate: running.header,
+          footerTemplate: running.footer,
+          // Room for the running header and footer; the stylesheet's @page margin is the same.
+          margin: { top: '18mm', bottom: '16mm', left: '14mm', right: '14mm' },
+        });
         written.push(target);
       } catch (e) {
         problems.push(`${id}: ${(e as Error).message}`);

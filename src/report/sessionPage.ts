@@ -11,6 +11,14 @@ import { calibrationChart, residualChart, scanChart, scoreChart, spectrumChart }
 import { display, fixed, percent, probability, speciesLabel } from './format.js';
 import { renderNotes } from './notes.js';
 import type { ResultJson } from './result.js';
+import {
+  EVIDENCE_SCALE,
+  evidenceWords,
+  foundShiftText,
+  knownShiftText,
+  shiftHeading,
+  velocityMatters,
+} from './wording.js';
 
 /** The assignment table's mark for a reference value that was not read (explained in its caption). */
 const ORIGIN_MARK: Readonly<Record<ReferenceOrigin, string>> = {
@@ -26,9 +34,12 @@ export interface SessionPageInput {
   identification: Identification;
   result: ResultJson;
   catalog: Catalog;
+  /** Problems told in plain words (codes stay in the terminal). */
   warnings: string[];
   buildOptions: string;
   programVersion: string;
+  /** Link record.pdf (only builds run with --pdf write one). */
+  pdfLink?: boolean;
 }
 
 function instrumentText(s: Session): string {
@@ -54,9 +65,17 @@ export async function sessionPageModel(
 ): Promise<Record<string, unknown>> {
   const { session, reduction, identification: idn, result, catalog } = input;
   const medium = reduction.medium;
-  const unitLabel = `${medium} nm`;
+
   const chosen = new Set(idn.explanation.species);
   const bySessionIndex = new Map(idn.lines.map((l) => [l.index, l]));
+  const found = idn.shift;
+  const knownShift = reduction.shift && reduction.shift.source !== 'search' ? reduction.shift : null;
+  const kind = session.source.kind;
+  const shift = found ? foundShiftText(found, kind) : knownShift ? knownShiftText(knownShift, kind) : null;
+  const shiftTitle = found ? shiftHeading(found, kind) : knownShift ? shiftHeading(knownShift, kind) : '';
+  const shifted = shift !== null;
+  const restLabel = shifted ? `rest-frame ${medium}` : medium;
+  const unitLabel = `${restLabel} nm`;
 
   // Spectrum: measured lines normalised to the strongest (or all equal), references by species.
   const maxI = Math.max(0, ...reduction.lines.map((l) => l.intensity ?? 0));
@@ -64,7 +83,15 @@ export async function sessionPageModel(
     wavelength_nm: display(l.rest_vacuum_nm, medium),
     height: maxI > 0 && l.intensity !== null ? 0.15 + 0.85 * (l.intensity / maxI) : 1,
     label: `#${l.index + 1} ${fixed(display(l.rest_vacuum_nm, medium), 3)} nm`,
+    absorption: l.kind === 'absorption',
   }));
+  const absorptions = measured.filter((m) => m.absorption).length;
+  const drawing =
+    absorptions === 0
+      ? 'Measured lines (black, rising from the middle line)'
+      : absorptions === measured.length
+        ? 'Measured absorption lines (black, dipping down from the grey continuum at the top: the darker the line, the deeper)'
+        : 'Measured lines (black): emission lines rise from the middle line, absorption lines dip down from the grey continuum at the top';
   const shownSpecies =
     idn.explanation.species.length > 0
       ? idn.explanation.species
@@ -89,7 +116,7 @@ export async function sessionPageModel(
     }
   }
   const range: [number, number] = [display(idn.range_nm[0], medium), display(idn.range_nm[1], medium)];
-  const spectrumTitle = `Measured lines (black, above) and reference lines of ${shownSpecies.join(', ') || 'no species'} (dashed, below), ${range[0].toFixed(0)}–${range[1].toFixed(0)} ${unitLabel}; the band shows the colour of each wavelength.`;
+  const spectrumTitle = `${drawing}, and reference lines of ${shownSpecies.join(', ') || 'no species'} (dashed, below the middle line, longer for stronger lines), ${range[0].toFixed(0)}–${range[1].toFixed(0)} ${restLabel} nm; the band shows the colour of each wavelength.`;
   const spectrum = await renderChart(
     spectrumChart({
       title: spectrumTitle,
@@ -120,8 +147,13 @@ export async function sessionPageModel(
       ? await renderChart(residualChart(residualTitle, unitLabel, residualPoints, shownSpecies), cache)
       : null;
 
-  const top = idn.candidates.slice(0, 8);
-  const scoresTitle = `Scores of the ${top.length} best candidates; the species of the explanation in blue.`;
+  // Only species with some evidence are listed; the rest are counted (all are in result.json).
+  const shownCandidates = idn.candidates.filter(
+    (c) => chosen.has(c.species) || (c.matched > 0 && c.score > 0),
+  );
+  const othersTried = Math.max(0, idn.considered.length - shownCandidates.length);
+  const top = shownCandidates.slice(0, 8);
+  const scoresTitle = `Evidence scores of the ${top.length === 1 ? 'one species' : `${top.length} species`} with evidence; the species of the result in blue.`;
   const scores =
     top.length > 0
       ? await renderChart(
@@ -164,17 +196,6 @@ export async function sessionPageModel(
     };
   }
 
-  const found = idn.shift;
-  const knownShift = reduction.shift && reduction.shift.source !== 'search' ? reduction.shift : null;
-  const bary = reduction.shift?.barycentric ?? null;
-  const baryText = bary
-    ? `; barycentric correction ${fixed(bary.correction_km_s, 3)} km/s (${bary.method})`
-    : '';
-  const shift = found
-    ? `Found by a search over the session's range: z = ${found.z.toFixed(5)} ± ${found.z_sigma.toPrecision(2)} (v = ${fixed(found.velocity_km_s, 1)} ± ${fixed(found.velocity_sigma_km_s, 1)} km/s) from ${found.lines_used} matched lines, scan step ${found.step_z.toPrecision(2)} in z${found.barycentric_velocity_km_s !== null ? `; barycentric v = ${fixed(found.barycentric_velocity_km_s, 1)} km/s` : ''}${baryText}.${found.warning ? ` Warning: ${found.warning}.` : ''}`
-    : knownShift
-      ? `z = ${knownShift.z.toPrecision(6)} ± ${knownShift.z_sigma.toPrecision(2)} (v = ${fixed(knownShift.velocity_km_s, 2)} ± ${fixed(knownShift.velocity_sigma_km_s, 2)} km/s), from the ${knownShift.source} given in the session${baryText}.`
-      : null;
   const scanTitle = found
     ? `Shift scan: best explanation's score at each shift tried (z ${found.scan[0]?.z.toFixed(3)}–${found.scan.at(-1)?.z.toFixed(3)}); elsewhere the lines line up no better than chance.`
     : '';
@@ -209,12 +230,12 @@ export async function sessionPageModel(
       wavelength: fixed(medium === 'air' ? d.air_nm : d.vacuum_nm, 2),
     })),
     warnings: input.warnings,
-    cautions: cautionsFor(session.source.kind),
+    cautions: cautionsFor(session.source.kind, session.source.class),
     reduction: reduction.description,
     shift,
     lines: reduction.lines.map((l) => ({
       number: l.combined_indices.length
-        ? `${l.index + 1} (+${l.combined_indices.map((i) => i + 1).join(', ')})`
+        ? `${l.index + 1} (with ${l.combined_indices.map((i) => i + 1).join(', ')})`
         : l.index + 1,
       label: l.label ?? '',
       reading: l.reading_text,
@@ -224,6 +245,10 @@ export async function sessionPageModel(
       intensity: l.intensity ?? '',
       kind: l.kind,
     })),
+    shifted,
+    restLabel,
+    shiftTitle,
+    showVelocity: velocityMatters(kind),
     calibration,
     charts: {
       spectrum: spectrum.svg,
@@ -245,8 +270,11 @@ export async function sessionPageModel(
       return {
         origin_mark: origin === null ? '' : ORIGIN_MARK[origin],
         number: l.index + 1,
+        // Tentative lines carry their probability: the species is not confirmed.
+        status:
+          a?.status === 'tentative' ? `tentative (${percent(a.probability)})` : (a?.status ?? 'unexplained'),
         wavelength: fixed(display(l.rest_vacuum_nm, medium), 3),
-        species: asg ? speciesLabel(asg.species, asg.flags) + (asg.blend ? ' (blend)' : '') : 'unexplained',
+        species: asg ? speciesLabel(asg.species, asg.flags) + (asg.blend ? ' (blend)' : '') : '—',
         reference: asg ? fixed(display(asg.ref_vacuum_nm, medium), 3) : '—',
         residual_nm: asg ? fixed(asg.residual_nm, 3) : '—',
         residual_km_s: asg ? fixed(asg.residual_km_s, 1) : '—',
@@ -259,12 +287,13 @@ export async function sessionPageModel(
             .join('; ') || '—',
       };
     }),
-    candidates: idn.candidates.slice(0, 15).map((c, i) => ({
+    candidates: shownCandidates.map((c, i) => ({
       rank: i + 1,
       species: c.telluric ? `${c.species} (telluric)` : c.species,
       chosen: chosen.has(c.species),
-      score: fixed(c.score, 2),
-      confidence: percent(c.confidence),
+      inRecord: chosen.has(c.species) ? 'yes' : '',
+      score: fixed(c.score, 1),
+      evidence: evidenceWords(c.score),
       matched: c.matched,
       expected: c.expected,
       falseAlarm: probability(c.false_alarm),
@@ -275,12 +304,16 @@ export async function sessionPageModel(
             .join(', ') + (c.missing_nm.length > 5 ? ' …' : '')
         : '—',
     })),
+    candidatesOthers: othersTried,
+    evidenceScale: EVIDENCE_SCALE,
+    confidence: idn.explanation.species.length ? percent(idn.explanation.confidence) : null,
     notesHtml: renderNotes(session.notes),
     program: { version: input.programVersion },
     catalog: { version: catalog.version, sha256: catalog.sha256 },
     inputFile: result.input.file,
     inputSha256: result.input.sha256,
     buildOptions: input.buildOptions,
+    pdfLink: input.pdfLink === true,
     sources,
     referenceOrigins,
   };

@@ -2,18 +2,19 @@
  * The render stage: processed sessions → the site's files (paths relative to the output
  * folder, contents as strings). Pure apart from chart rendering, which is deterministic.
  */
-import { type Diagnostic, formatDiagnosticLine } from '../diagnostics.js';
+import type { Diagnostic } from '../diagnostics.js';
 import type { Catalog } from '../lines/types.js';
 import type { SessionOutcome } from '../pipeline.js';
 import { GENERAL_CAUTION } from './cautions.js';
-import { type ChartCache, renderChart } from './charts/render.js';
-import { overviewChart } from './charts/specs.js';
+import type { ChartCache } from './charts/render.js';
 import { linesCsv } from './csv.js';
-import { percent } from './format.js';
+import { display, percent } from './format.js';
 import { renderNotes } from './notes.js';
 import { buildResult } from './result.js';
 import { sessionPageModel } from './sessionPage.js';
+import { STRIP_RANGE_NM, type StripLine, speciesColours, stripSvg, swatchSvg } from './strip.js';
 import type { Templates } from './templates.js';
+import { plainProblem } from './wording.js';
 
 export interface SiteFile {
   path: string;
@@ -35,6 +36,11 @@ export interface RenderInput {
   buildOptions: string;
   /** From SOURCE_DATE_EPOCH when set; never the wall clock. */
   builtOn: string | null;
+  /**
+   * Whether the build also prints record.pdf (build --pdf): decided by the options, never by
+   * looking at the disk, so two builds with the same options give the same bytes.
+   */
+  pdfLinks?: boolean;
 }
 
 /** One row of the index table; a plain value so a cached or worker-built session can carry it. */
@@ -49,6 +55,10 @@ export interface IndexRow {
   confidence: string;
   status: string;
   diagnostics: string[];
+  /** The session's lines for the index strip (rest frame, session's medium). */
+  lines: StripLine[];
+  /** Readable id (the folder name of the record). */
+  id: string | null;
 }
 
 export interface OverviewEntry {
@@ -102,7 +112,9 @@ export function failedRow(
     explanation: 'not built: see the problems below',
     confidence: '—',
     status: 'failed',
-    diagnostics: diagnostics.map((d) => formatDiagnosticLine({ ...d, file: fileName })),
+    diagnostics: diagnostics.map((d) => plainProblem(d)),
+    lines: [],
+    id: null,
   };
 }
 
@@ -133,9 +145,10 @@ export async function renderSessionPart(
       identification,
       result,
       catalog,
-      warnings: outcome.warnings.map((d) => formatDiagnosticLine({ ...d, file: fileName })),
+      warnings: outcome.warnings.map((d) => plainProblem(d, session.source.kind)),
       buildOptions: ctx.buildOptions,
       programVersion: ctx.programVersion,
+      pdfLink: ctx.pdfLinks === true,
     },
     cache,
   );
@@ -172,6 +185,11 @@ export async function renderSessionPart(
         : '—',
       status: identification.explanation.status,
       diagnostics: [],
+      id: session.id,
+      lines: reduction.lines.map((l) => ({
+        nm: display(l.rest_vacuum_nm, reduction.medium),
+        species: identification.lines.find((a) => a.index === l.index)?.assignment?.species ?? null,
+      })),
     },
   };
 }
@@ -181,28 +199,35 @@ export async function renderIndexFiles(
   rowsIn: readonly IndexRow[],
   overview: readonly OverviewEntry[],
   ctx: RenderContext,
-  cache: ChartCache = new Map(),
+  // Kept for callers: the index draws no chart of its own any more (its strips are plain SVG).
+  _cache: ChartCache = new Map(),
 ): Promise<SiteFile[]> {
   const { templates } = ctx;
   const common = commonOf(ctx);
-  // Newest first; undated last; ties by title so the order never depends on the file system.
+  // In time order, oldest first, as a club's log reads; undated last; ties by title so the
+  // order never depends on the file system.
   const rows = [...rowsIn].sort(
     (a, b) =>
-      (b.sortKey || '0').localeCompare(a.sortKey || '0') ||
+      (a.sortKey || '9').localeCompare(b.sortKey || '9') ||
       a.title.localeCompare(b.title) ||
       a.file.localeCompare(b.file),
   );
   const count = (s: string) => rows.filter((r) => r.status === s).length;
-  const overviewCaption = `Species in each session's explanation (${overview.length} findings across ${rows.length} sessions).`;
-  const overviewChartSvg =
-    overview.length > 0
-      ? (await renderChart(overviewChart(overviewCaption, [...overview]), cache)).svg
-      : null;
+  const colours = speciesColours(rows.map((r) => r.lines));
+  const shownRows = rows.map((r) => ({
+    ...r,
+    strip: r.lines.length ? stripSvg(r.lines, colours) : null,
+    speciesKey: [...new Set(r.lines.map((l) => l.species).filter((x): x is string => x !== null))]
+      .sort()
+      .map((species) => ({ species, swatch: swatchSvg(colours.get(species) ?? null) })),
+    unexplainedSwatch: r.lines.some((l) => l.species === null) ? swatchSvg(null) : null,
+  }));
   const indexBody = templates.index({
     ...common,
     root: '',
     site: { ...ctx.settings, introHtml: renderNotes(ctx.settings.introMarkdown) },
-    sessions: rows,
+    sessions: shownRows,
+    stripRange: STRIP_RANGE_NM,
     counts: {
       total: rows.length,
       one: rows.length === 1,
@@ -211,7 +236,7 @@ export async function renderIndexFiles(
       unexplained: count('unexplained'),
       failed: count('failed'),
     },
-    overview: overviewChartSvg ? { svg: overviewChartSvg, caption: overviewCaption } : null,
+    overview: overview.length > 0,
     bySpecies: sessionsBySpecies(rows, overview),
     generalCaution: GENERAL_CAUTION,
   });

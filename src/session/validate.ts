@@ -71,6 +71,17 @@ export function validateWith<T>(
   return { document: null, diagnostics };
 }
 
+/** Usual other spellings of allowed words (unit symbols, capitals). */
+const ALIASES: Record<string, string> = { å: 'angstrom', a: 'angstrom', Å: 'angstrom', µm: 'um', μm: 'um' };
+
+function spellingOf(given: string, allowed: readonly string[]): string | null {
+  const lower = given.trim().toLowerCase();
+  const alias = ALIASES[given.trim()] ?? ALIASES[lower];
+  if (alias && allowed.includes(alias)) return alias;
+  const same = allowed.find((a) => a.toLowerCase() === lower);
+  return same ?? didYouMean(given, allowed);
+}
+
 function toDiagnostic(error: ErrorObject, source: YamlSource, file: string): Diagnostic {
   const path = pathOf(error.instancePath);
   const base = { file, severity: 'error' as const };
@@ -100,6 +111,19 @@ function toDiagnostic(error: ErrorObject, source: YamlSource, file: string): Dia
         field: fieldName([...path, missing]),
         message: `required key "${missing}" is missing`,
         hint: missing === 'lineledger' ? 'add `lineledger: 1` as the first line' : `add "${missing}"`,
+      };
+    }
+    case 'enum': {
+      const allowed = ((error.params as { allowedValues: unknown[] }).allowedValues ?? []).map(String);
+      const given = String(error.data);
+      const guess = spellingOf(given, allowed);
+      return {
+        ...base,
+        ...source.positionOf(path),
+        code: 'invalid-value',
+        field: fieldName(path),
+        message: `"${given}" is not one of ${allowed.join(', ')}`,
+        hint: guess ? `did you mean "${guess}"?` : undefined,
       };
     }
     default: {

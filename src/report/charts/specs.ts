@@ -18,10 +18,14 @@ export interface SpectrumChartInput {
   title: string;
   unitLabel: string;
   range_nm: [number, number];
-  measured: { wavelength_nm: number; height: number; label: string }[];
+  /** Emission lines rise from the axis; absorption lines hang down from a continuum at the top. */
+  measured: { wavelength_nm: number; height: number; label: string; absorption: boolean }[];
   references: { wavelength_nm: number; height: number; species: string }[];
   species: string[];
 }
+
+/** Height of the drawn continuum from which absorption lines dip. */
+const CONTINUUM = 1.02;
 
 /** Measured lines (black, above the axis) against the explanation's reference lines (below, by species). */
 export function spectrumChart(input: SpectrumChartInput): TopLevelSpec {
@@ -62,7 +66,13 @@ export function spectrumChart(input: SpectrumChartInput): TopLevelSpec {
         height: 200,
         layer: [
           {
-            data: { values: input.measured.map((m) => ({ ...m, base: 0 })) },
+            data: {
+              values: input.measured.map((m) =>
+                m.absorption
+                  ? { ...m, base: CONTINUUM, height: CONTINUUM - 0.9 * m.height }
+                  : { ...m, base: 0 },
+              ),
+            },
             mark: { type: 'rule', color: '#000000', strokeWidth: 2 },
             encoding: {
               x,
@@ -94,6 +104,15 @@ export function spectrumChart(input: SpectrumChartInput): TopLevelSpec {
             mark: { type: 'rule', color: '#555555' },
             encoding: { y: { datum: 0, type: 'quantitative' } },
           },
+          ...(input.measured.some((m) => m.absorption)
+            ? [
+                {
+                  data: { values: [{}] },
+                  mark: { type: 'rule' as const, color: '#999999', strokeWidth: 3 },
+                  encoding: { y: { datum: CONTINUUM, type: 'quantitative' as const } },
+                },
+              ]
+            : []),
         ],
       },
     ],
@@ -172,16 +191,16 @@ export function scoreChart(
     config: CONFIG,
     width: 480,
     height: { step: 20 },
-    data: { values: rows.map((r) => ({ ...r, role: r.chosen ? 'in the explanation' : 'not chosen' })) },
+    data: { values: rows.map((r) => ({ ...r, role: r.chosen ? 'in the result' : 'not needed' })) },
     mark: { type: 'bar' },
     encoding: {
       y: { field: 'species', type: 'nominal', sort: null, title: null },
-      x: { field: 'score', type: 'quantitative', title: 'Score (log-likelihood ratio, nats)' },
+      x: { field: 'score', type: 'quantitative', title: 'Evidence score (natural log of the odds ratio)' },
       color: {
         field: 'role',
         type: 'nominal',
         title: null,
-        scale: { domain: ['in the explanation', 'not chosen'], range: ['#0072B2', '#BBBBBB'] },
+        scale: { domain: ['in the result', 'not needed'], range: ['#0072B2', '#BBBBBB'] },
       },
     },
   } as TopLevelSpec;
@@ -297,7 +316,7 @@ export function scanChart(
         mark: { type: 'rule', color: '#0072B2', strokeWidth: 2 },
         encoding: {
           x: { field: 'z', type: 'quantitative', title: 'Redshift z', scale: { zero: false } },
-          y: { field: 'base', type: 'quantitative', title: 'Score (nats)' },
+          y: { field: 'base', type: 'quantitative', title: 'Evidence score' },
           y2: { field: 'score' },
         },
       },
