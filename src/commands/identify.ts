@@ -33,7 +33,8 @@ export function formatRanking(title: string, id: string, result: ResultJson): st
   const others = result.candidates.length - Math.min(8, shown.length);
   if (others > 0) out.push(`  (${others} other species tried; all are in --json)`);
   out.push('');
-  const frame = result.lines.some((l) => Math.abs(l.rest_vacuum_nm - l.vacuum_nm) > 1e-9) ? 'rest ' : '';
+  // A removed shift makes the compared wavelengths rest-frame; a fitted reading offset, corrected ones.
+  const frame = result.shift ? 'rest ' : result.scale_correction ? 'corrected ' : '';
   out.push(
     `  line  wavelength (${frame}${result.medium} nm)  status       reference (${frame}${result.medium} nm, residual)`,
   );

@@ -27,6 +27,7 @@ import {
 import { displayName } from './notation.js';
 import { refsInRange } from './prepare.js';
 import { priorPenalty, sessionPriors } from './priors.js';
+import { applyReadingOffset, describeReadingOffset, fitReadingOffset } from './scaleOffset.js';
 import { searchShift } from './shiftSearch.js';
 import { describeExplanation } from './summary.js';
 import type {
@@ -114,7 +115,19 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
       return { identification: searched.identification, reduction: searched.reduction, warnings };
     }
   }
-  const identification = core(reduction);
+  const first = core(reduction);
+  const corrected =
+    reduction.session.measurement.method === 'wavelength' ? withReadingOffset(reduction, first, core) : null;
+  if (corrected?.identification.scale) {
+    note(
+      'reading-offset',
+      'lines',
+      corrected.identification.scale.message,
+      'calibrate against a lamp of known lines (method pixel, or readings of a reference lamp)',
+    );
+    return { identification: corrected.identification, reduction: corrected.reduction, warnings };
+  }
+  const identification = first;
   if (identification.candidates.length === 0 && pool.length > 0) {
     const [a, b] = identification.range_nm;
     note(
@@ -125,6 +138,41 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
     );
   }
   return { identification, reduction, warnings };
+}
+
+/**
+ * A second identification on readings corrected for a fitted offset (and scale), kept only
+ * when it explains the lines at least as well and identifies at least as many of them.
+ */
+function withReadingOffset(
+  reduction: Reduction,
+  first: Identification,
+  core: (r: Reduction) => Identification,
+): { identification: Identification; reduction: Reduction } | null {
+  // Refit on each new identification (its assignments may change once the lines move), from
+  // the uncorrected readings; two rounds settle every case we have seen.
+  let fit = fitReadingOffset(reduction, first, first.fwhm_nm);
+  if (!fit) return null;
+  let correctedReduction = applyReadingOffset(reduction, fit);
+  let second = core(correctedReduction);
+  for (let round = 0; round < 2; round++) {
+    const refit = fitReadingOffset(reduction, second, first.fwhm_nm);
+    if (!refit || Math.abs(refit.offset_nm - fit.offset_nm) < 0.1 * refit.offset_sigma_nm) break;
+    fit = refit;
+    correctedReduction = applyReadingOffset(reduction, fit);
+    second = core(correctedReduction);
+  }
+  const identified = (idn: Identification) => idn.lines.filter((l) => l.status === 'identified').length;
+  const gain = second.explanation.score - first.explanation.score;
+  if (gain < 0 || identified(second) < identified(first)) return null;
+  const display = (s: string) => second.display[s] ?? s;
+  return {
+    reduction: correctedReduction,
+    identification: {
+      ...second,
+      scale: { ...fit, gain_nats: gain, message: describeReadingOffset(fit, display) },
+    },
+  };
 }
 
 /** Identification of lines already in their rest frame. */
