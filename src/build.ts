@@ -126,6 +126,16 @@ function inputProblem(path: string, code: string, message: string, hint: string)
   };
 }
 
+/** An open or read that failed: the system's error code, and what to check. */
+function unreadable(path: string, e: unknown): SessionInput {
+  return inputProblem(
+    path,
+    'unreadable',
+    `cannot be read (${(e as NodeJS.ErrnoException).code ?? 'error'})`,
+    'check the file and its permissions',
+  );
+}
+
 /**
  * Reads one session file at the edge, safely: a link to nothing, a loop of links or a link
  * leaving `root` (the sessions folder; null: follow any) is a problem of that file; the size
@@ -192,12 +202,7 @@ export function readSessionInput(
       return inputProblem(path, 'not-a-file', 'is not a regular file', 'session files are plain text files');
     fd = openSync(real, 'r');
   } catch (e) {
-    return inputProblem(
-      path,
-      'unreadable',
-      `cannot be read (${(e as NodeJS.ErrnoException).code ?? 'error'})`,
-      'check the file and its permissions',
-    );
+    return unreadable(path, e);
   }
   try {
     const size = fstatSync(fd).size;
@@ -216,12 +221,7 @@ export function readSessionInput(
     if (got > maxBytes) return tooLarge(got);
     return { path, bytes: new Uint8Array(buf.buffer, buf.byteOffset, got) };
   } catch (e) {
-    return inputProblem(
-      path,
-      'unreadable',
-      `cannot be read (${(e as NodeJS.ErrnoException).code ?? 'error'})`,
-      'check the file and its permissions',
-    );
+    return unreadable(path, e);
   } finally {
     closeSync(fd);
   }

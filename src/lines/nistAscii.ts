@@ -21,13 +21,14 @@ export interface TableRow {
 const HEADER_START = /\b(Observed|Ritz)\b/;
 const DASHES = /^#?\s*-{10,}\s*$/;
 
-function split(text: string): { cells: string[]; starts: number[] } {
-  const cells = text.split('|');
+/** Cells of a row split at `separator`, with each cell's start column (for diagnostics). */
+export function splitAt(text: string, separator: string): { cells: string[]; starts: number[] } {
+  const cells = text.split(separator);
   const starts: number[] = [];
   let at = 0;
   for (const c of cells) {
     starts.push(at);
-    at += c.length + 1;
+    at += c.length + separator.length;
   }
   return { cells, starts };
 }
@@ -59,7 +60,7 @@ function columnName(words: string, previous: string | null): string {
  * wider cell of another row (Lower level over Conf. | Term | J) names each column it covers.
  */
 function headerNames(rows: readonly string[]): { names: string[]; starts: number[] } {
-  const parts = rows.map(split);
+  const parts = rows.map((r) => splitAt(r, '|'));
   const widest = parts.reduce((a, b) => (b.cells.length > a.cells.length ? b : a));
   const names: string[] = [];
   let previous: string | null = null;
@@ -125,7 +126,7 @@ export function asciiTableRows(lines: readonly string[]): TableRow[] {
     }
     i++;
     if (!inTable || raw.startsWith('#') || !raw.includes('|')) continue;
-    const { cells, starts } = split(raw);
+    const { cells, starts } = splitAt(raw, '|');
     if (cells.every((c) => c.trim() === '')) continue; // separator row between groups
     out.push({ line: i, cells, starts });
   }

@@ -7,7 +7,7 @@
 import { NM_PER_ANGSTROM, NM_PER_MICROMETRE } from '../constants.js';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
-import { asciiTableRows, isAsciiTable, type TableRow } from './nistAscii.js';
+import { asciiTableRows, isAsciiTable, splitAt, type TableRow } from './nistAscii.js';
 import { CATALOG_COLUMNS } from './parse.js';
 
 export type ExportMedium = 'air' | 'vacuum';
@@ -158,16 +158,7 @@ function splitCsv(text: string): { cells: string[]; starts: number[] } {
   return { cells, starts };
 }
 
-function splitTabs(text: string): { cells: string[]; starts: number[] } {
-  const cells = text.split('\t');
-  const starts: number[] = [];
-  let at = 0;
-  for (const c of cells) {
-    starts.push(at);
-    at += c.length + 1;
-  }
-  return { cells, starts };
-}
+const splitTabs = (text: string) => splitAt(text, '\t');
 
 /** Tab-delimited or CSV text (whichever the first line uses) → rows of cells. */
 function delimitedRows(lines: readonly string[]): TableRow[] {
