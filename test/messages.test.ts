@@ -22,3 +22,14 @@ describe('did-you-mean for closed words', () => {
     expect(d[0]?.line).toBe(2);
   });
 });
+
+describe('a value that holds a comma', () => {
+  it('says to quote it instead of calling its tail an unknown key', () => {
+    const d = problems(
+      'lineledger: 1\nsource: { kind: sky, name: blue sky, not the Sun }\nlines:\n  - { wavelength: 486.1 }\n',
+    );
+    const unknown = d.find((x) => x.code === 'unknown-key');
+    expect(unknown?.hint).toContain('must be quoted');
+    expect(unknown?.line).toBe(2);
+  });
+});

@@ -99,7 +99,13 @@ function toDiagnostic(error: ErrorObject, source: YamlSource, file: string): Dia
         code: 'unknown-key',
         field: fieldName(keyPath),
         message: `unknown key "${key}"`,
-        hint: guess ? `did you mean "${guess}"?` : `allowed here: ${known.join(', ')}`,
+        // A key with spaces is most often the tail of an unquoted value such as
+        // `{ name: blue sky, not the Sun }`, which YAML splits at the comma.
+        hint: /\s/.test(key.trim())
+          ? `"${key}" looks like part of a value: a value that holds a comma or a colon must be quoted, such as name: "blue sky, not the Sun"`
+          : guess
+            ? `did you mean "${guess}"?`
+            : `allowed here: ${known.join(', ')}`,
       };
     }
     case 'required': {
