@@ -8,7 +8,7 @@ import { NM_PER_ANGSTROM, NM_PER_MICROMETRE } from '../constants.js';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
 import { asciiTableRows, isAsciiTable, splitAt, type TableRow } from './nistAscii.js';
-import { CATALOG_COLUMNS } from './parse.js';
+import { CATALOG_COLUMNS, parseCatalog } from './parse.js';
 
 export type ExportMedium = 'air' | 'vacuum';
 
@@ -326,6 +326,18 @@ export function convertNistExport(
   const droppedSeen = new Map<string, number>();
   const spectraSeen = new Set<string>();
   let headerSeen = false;
+  let labelledByExport = false;
+  if (options.species !== null && !SPECTRUM_NAME.test(options.species)) {
+    say(
+      diagnostics,
+      1,
+      1,
+      '--species',
+      `"${options.species.slice(0, 40)}" is not a spectrum name`,
+      'give the element and ion stage in spectroscopic notation, e.g. "Fe I" or "O III"',
+    );
+    return { ok: false, diagnostics };
+  }
 
   for (const { line: lineNo, cells: rawCells, starts } of ascii
     ? asciiTableRows(lines)
@@ -382,6 +394,7 @@ export function convertNistExport(
         continue;
       }
       const own = `${element} ${romanNumeral(sp)}`;
+      labelledByExport = true;
       spectraSeen.add(own);
       if (species !== null && own !== species) continue;
       species = own;
@@ -509,15 +522,35 @@ export function convertNistExport(
       'see docs/catalog.md',
     );
   }
-  return {
-    ok: true,
-    value: {
-      rows: merged,
-      tsv: writeTsv(merged, file, options.sourceKey, ascii ? 'ASCII table' : 'delimited text'),
-    },
-    warnings,
-  };
+  const tsv = writeTsv(merged, file, options.sourceKey, ascii ? 'ASCII table' : 'delimited text');
+  // What we write must load: the catalog loader's own rules are the check, not a second copy.
+  const check = parseCatalog({
+    version: 'import-nist',
+    lineFiles: [{ name: 'converted.tsv', text: tsv }],
+    sourceFiles: [
+      { name: 'sources.yaml', text: `${JSON.stringify(options.sourceKey)}:\n  citation: check\n` },
+    ],
+    groupsYaml: null,
+  });
+  if (!check.ok) {
+    for (const d of check.diagnostics)
+      say(diagnostics, 1, 1, d.field, `the converted rows would not load: ${d.message}`, d.hint);
+    return { ok: false, diagnostics };
+  }
+  if (!labelledByExport)
+    say(
+      warnings,
+      1,
+      1,
+      '--species',
+      `the export does not name its spectrum: every row is labelled "${options.species}" as --species says`,
+      'check that the export is of that spectrum',
+    );
+  return { ok: true, value: { rows: merged, tsv }, warnings };
 }
+
+/** Spectroscopic notation of an atomic spectrum: element symbol and ion stage ("Fe I", "O III"). */
+const SPECTRUM_NAME = /^[A-Z][a-z]? [IVXLC]+$/;
 
 /**
  * Same species and wavelength more than once: ASD lists a line once per classification, and an

@@ -272,3 +272,26 @@ describe('NIST ASD import: the ASCII table (real excerpts)', () => {
     expect(near(r.value.rows, 334.598)?.unc_nm).toBeCloseTo(0.001, 9);
   });
 });
+
+describe('NIST ASD import: what it refuses', () => {
+  const fails = (text: string, o: Partial<NistImportOptions>) => {
+    const r = convertNistExport(text, 'export.txt', options(o));
+    if (r.ok) throw new Error('expected a refusal');
+    return r.diagnostics.map((d) => d.message).join('\n');
+  };
+  it.each(['<script>alert(1)</script>', '999 999', 'Fe', 'fe i'])('refuses --species %s', (name) => {
+    expect(fails(fixture('h-i-lines.tsv'), { species: name })).toMatch(/not a spectrum name/);
+  });
+
+  it('refuses an intensity that would be written as Infinity (the loader rejects it)', () => {
+    const huge = '9'.repeat(400);
+    const text = fixture('h-i-lines.tsv').replace('"80000P"', `"${huge}"`);
+    expect(fails(text, { species: 'H I' })).toMatch(/would not load/);
+  });
+
+  it('warns that an export without element columns is labelled only by --species', () => {
+    const r = convertNistExport(fixture('h-i-lines.tsv'), 'export.txt', options({ species: 'Fe I' }));
+    if (!r.ok) throw new Error('should convert');
+    expect(r.warnings.map((w) => w.message).join('\n')).toMatch(/does not name its spectrum/);
+  });
+});
