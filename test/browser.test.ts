@@ -11,6 +11,7 @@ import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { type Browser, chromium } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startPreview } from '../src/commands/preview.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const available = existsSync(CHROMIUM);
@@ -68,10 +69,38 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     }
     const scripts = await tab.$$eval('script', (s) => s.length);
     expect(scripts).toBe(0);
+    // The page's own CSP refuses script that finds its way in (here, added by the test), while
+    // its stylesheet still applied above from file:// (CSP Level 3, script-src falls back to
+    // default-src 'none').
+    const ran = await tab.evaluate(() => {
+      const w = globalThis as unknown as {
+        injected?: boolean;
+        document: {
+          createElement: (tag: string) => { textContent: string };
+          head: { append: (el: unknown) => void };
+        };
+      };
+      const el = w.document.createElement('script');
+      el.textContent = 'globalThis.injected = true';
+      w.document.head.append(el);
+      return w.injected === true;
+    });
+    expect(ran).toBe(false);
+    expect(
+      await tab.evaluate(
+        () =>
+          (globalThis as unknown as { document: { styleSheets: { length: number } } }).document.styleSheets
+            .length,
+      ),
+    ).toBe(1);
+    await tab.close();
 
-    // axe-core, injected only into the test browser, never into the site.
-    await tab.addScriptTag({ content: readFileSync(resolve('node_modules/axe-core/axe.min.js'), 'utf8') });
-    const violations = await tab.evaluate(async () => {
+    // axe-core, injected only into the test browser (which bypasses the page's CSP for it),
+    // never into the site.
+    const axeTab = await browser.newPage({ viewport: { width: 1100, height: 900 }, bypassCSP: true });
+    await axeTab.goto(pathToFileURL(join(SITE, page)).href);
+    await axeTab.addScriptTag({ content: readFileSync(resolve('node_modules/axe-core/axe.min.js'), 'utf8') });
+    const violations = await axeTab.evaluate(async () => {
       const w = globalThis as unknown as {
         axe: { run: () => Promise<{ violations: { id: string; impact: string }[] }> };
       };
@@ -80,8 +109,8 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     });
     expect(violations).toEqual([]);
     const shotName = page.replace(/\//g, '_').replace('.html', '.png');
-    await tab.screenshot({ path: join(ARTIFACTS, shotName), fullPage: true });
-    await tab.close();
+    await axeTab.screenshot({ path: join(ARTIFACTS, shotName), fullPage: true });
+    await axeTab.close();
   });
 
   // A phone held upright is about 400 CSS px wide: nothing may widen the page past it (wide
@@ -144,6 +173,37 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
     expect(await tab.$$eval('script, iframe', (els) => els.length)).toBe(0);
     expect(requests.every((u) => u.startsWith('file://'))).toBe(true);
     await tab.close();
+  });
+
+  it('under lineledger preview, a page keeps its CSP and still reloads after a rebuild', async () => {
+    const server = await startPreview({ root: SITE, host: '127.0.0.1', port: 0, watch: false });
+    const tab = await browser.newPage();
+    const errors: string[] = [];
+    tab.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
+    tab.on('pageerror', (e) => errors.push(e.message));
+    try {
+      // The reload script is allowed by the preview's widened policy: once its event stream is
+      // answered (the server has registered it by then), announce a rebuild and expect a reload.
+      const listening = tab.waitForResponse((r) => r.url().endsWith('/__lineledger/events'));
+      await tab.goto(`${server.url}${pages[1]}`);
+      await listening;
+      const reloaded = tab.waitForEvent('load', { timeout: 10_000 });
+      server.reload();
+      await reloaded;
+      expect(errors).toEqual([]);
+      expect(
+        await tab.evaluate(
+          () =>
+            (globalThis as unknown as { document: { styleSheets: { length: number } } }).document.styleSheets
+              .length,
+        ),
+      ).toBe(1);
+    } finally {
+      await tab.close();
+      await server.close();
+    }
   });
 
   it('prints a session record to PDF, A4 and Letter', async () => {

@@ -10,11 +10,17 @@ import { createServer, type IncomingMessage, type ServerResponse } from 'node:ht
 import type { AddressInfo } from 'node:net';
 import { basename, dirname, extname, join, relative, resolve, sep } from 'node:path';
 import type { Command } from 'commander';
+import { cspMeta, PAGE_CSP, PREVIEW_CSP, PREVIEW_CSP_HEADER } from '../report/csp.js';
 import { CommandFailure, EXIT_OK, loadConfig } from './common.js';
 
 export const EVENTS_PATH = '/__lineledger/events';
 
-export const RELOAD_SNIPPET = `<script>/* lineledger preview only */(()=>{const e=new EventSource(${JSON.stringify(EVENTS_PATH)});e.onmessage=()=>location.reload();})();</script>`;
+/** The reload script, served from the preview's own origin so the page's CSP need allow no inline script. */
+export const RELOAD_SCRIPT_PATH = '/__lineledger/reload.js';
+
+const RELOAD_SCRIPT = `/* lineledger preview only */(()=>{const e=new EventSource(${JSON.stringify(EVENTS_PATH)});e.onmessage=()=>location.reload();})();\n`;
+
+export const RELOAD_SNIPPET = `<script src="${RELOAD_SCRIPT_PATH}"></script>`;
 
 const CONTENT_TYPES: Record<string, string> = {
   '.html': 'text/html; charset=utf-8',
@@ -49,17 +55,45 @@ export interface PreviewServer {
   close(): Promise<void>;
 }
 
-/** Adds the reload snippet before the last </body>, or at the end. */
+/**
+ * Adds the reload snippet before the last </body>, or at the end, and widens the page's own CSP
+ * <meta> to the preview's (a <meta> policy and a header policy both apply, so the page's
+ * `default-src 'none'` would otherwise block the reload script).
+ */
 export function injectReload(html: string): string {
-  const at = html.lastIndexOf('</body>');
-  return at < 0 ? html + RELOAD_SNIPPET : html.slice(0, at) + RELOAD_SNIPPET + html.slice(at);
+  const widened = html.replace(cspMeta(PAGE_CSP), cspMeta(PREVIEW_CSP));
+  const at = widened.lastIndexOf('</body>');
+  return at < 0 ? widened + RELOAD_SNIPPET : widened.slice(0, at) + RELOAD_SNIPPET + widened.slice(at);
+}
+
+/**
+ * Whether a request's Host header names this server by a loopback name. A page on another site
+ * can make a browser resolve its own name to 127.0.0.1 (DNS rebinding) and read the preview;
+ * checking Host refuses that. Only applied when the server itself listens on loopback: a
+ * server the user opened to the network is reached under names it cannot know.
+ */
+export function isLoopbackHost(hostHeader: string | undefined, port: number): boolean {
+  if (hostHeader === undefined) return false;
+  const host = hostHeader.toLowerCase();
+  // A browser leaves out the port when it is the scheme's default (RFC 9110 §7.2).
+  return ['127.0.0.1', 'localhost', '[::1]'].some(
+    (name) => host === `${name}:${port}` || (port === 80 && host === name),
+  );
+}
+
+/** Path segments of a URL path with empty ones (`//`) dropped, re-encoded: safe for a Location. */
+function canonicalPath(segments: readonly string[]): string {
+  return `/${segments.map((s) => encodeURIComponent(s)).join('/')}`;
 }
 
 /**
  * The file a URL path names inside root, or null when it would leave root (`..`, encoded
  * separators, symbolic links pointing out), names a hidden entry, or does not exist.
  */
-export function resolveInside(root: string, urlPath: string): { file: string; isDir: boolean } | null {
+export function resolveInside(
+  root: string,
+  urlPath: string,
+): { file: string; isDir: boolean; canonical: string } | null {
   let path: string;
   try {
     path = decodeURIComponent(urlPath);
@@ -76,18 +110,25 @@ export function resolveInside(root: string, urlPath: string): { file: string; is
     const real = realpathSync(target);
     const rel = relative(realRoot, real);
     if (rel.startsWith('..') || resolve(realRoot, rel) !== real) return null;
-    return { file: real, isDir: statSync(real).isDirectory() };
+    return { file: real, isDir: statSync(real).isDirectory(), canonical: canonicalPath(segments) };
   } catch {
     return null;
   }
 }
 
+/** Headers every response carries, whatever its status. */
+const COMMON_HEADERS = {
+  'Cache-Control': 'no-store',
+  'X-Content-Type-Options': 'nosniff',
+  'Content-Security-Policy': PREVIEW_CSP_HEADER,
+  'Referrer-Policy': 'no-referrer',
+} as const;
+
 function send(res: ServerResponse, status: number, type: string, body: string | Buffer, head: boolean): void {
   res.writeHead(status, {
+    ...COMMON_HEADERS,
     'Content-Type': type,
     'Content-Length': Buffer.byteLength(body),
-    'Cache-Control': 'no-store',
-    'X-Content-Type-Options': 'nosniff',
   });
   res.end(head ? undefined : body);
 }
@@ -95,9 +136,12 @@ function send(res: ServerResponse, status: number, type: string, body: string | 
 export function startPreview(options: PreviewOptions): Promise<PreviewServer> {
   const root = resolve(options.root);
   const listeners = new Set<ServerResponse>();
+  let checkHost: ((host: string | undefined) => boolean) | null = null;
 
   const handle = (req: IncomingMessage, res: ServerResponse) => {
     const head = req.method === 'HEAD';
+    if (checkHost && !checkHost(req.headers.host))
+      return send(res, 403, 'text/plain; charset=utf-8', 'this preview answers only to localhost\n', head);
     if (req.method !== 'GET' && !head) {
       res.setHeader('Allow', 'GET, HEAD');
       return send(res, 405, 'text/plain; charset=utf-8', 'method not allowed\n', false);
@@ -106,8 +150,8 @@ export function startPreview(options: PreviewOptions): Promise<PreviewServer> {
     if (pathname === EVENTS_PATH) {
       if (listeners.size >= MAX_LISTENERS) return send(res, 503, 'text/plain; charset=utf-8', 'busy\n', head);
       res.writeHead(200, {
+        ...COMMON_HEADERS,
         'Content-Type': 'text/event-stream',
-        'Cache-Control': 'no-store',
         Connection: 'keep-alive',
       });
       res.write(': listening for rebuilds\n\n');
@@ -115,12 +159,19 @@ export function startPreview(options: PreviewOptions): Promise<PreviewServer> {
       req.on('close', () => listeners.delete(res));
       return;
     }
+    if (pathname === RELOAD_SCRIPT_PATH)
+      return send(res, 200, CONTENT_TYPES['.js'] as string, RELOAD_SCRIPT, head);
     const found = resolveInside(root, pathname);
     if (!found) return send(res, 404, 'text/plain; charset=utf-8', 'not found\n', head);
     let file = found.file;
     if (found.isDir) {
       if (!pathname.endsWith('/')) {
-        res.writeHead(301, { Location: `${pathname}/`, 'Content-Length': 0 });
+        // The canonical path, never the raw one: `//host` would be a protocol-relative URL.
+        res.writeHead(301, {
+          ...COMMON_HEADERS,
+          Location: `${found.canonical.replace(/\/$/, '')}/`,
+          'Content-Length': 0,
+        });
         return res.end();
       }
       // No listings: a folder is its index.html or nothing.
@@ -168,6 +219,8 @@ export function startPreview(options: PreviewOptions): Promise<PreviewServer> {
     server.listen(options.port ?? 8080, options.host ?? '127.0.0.1', () => {
       const address = server.address() as AddressInfo;
       const host = address.family === 'IPv6' ? `[${address.address}]` : address.address;
+      if (['127.0.0.1', '::1', 'localhost'].includes(options.host ?? '127.0.0.1'))
+        checkHost = (header) => isLoopbackHost(header, address.port);
       resolveStart({
         url: `http://${host}:${address.port}/`,
         reload,

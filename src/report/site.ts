@@ -7,6 +7,7 @@ import type { Catalog } from '../lines/types.js';
 import type { SessionOutcome } from '../pipeline.js';
 import { GENERAL_CAUTION } from './cautions.js';
 import type { ChartCache } from './charts/render.js';
+import { PAGE_CSP } from './csp.js';
 import { linesCsv } from './csv.js';
 import { display, percent } from './format.js';
 import { renderNotes } from './notes.js';
@@ -93,6 +94,7 @@ function commonOf(ctx: RenderContext) {
     catalog: ctx.catalog,
     site: ctx.settings,
     builtOn: ctx.builtOn,
+    csp: PAGE_CSP,
   };
 }
 
