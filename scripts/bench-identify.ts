@@ -48,6 +48,7 @@ interface Outcome {
   z: number | null;
   zSigma: number | null;
   lines: number;
+  yaml: string;
 }
 
 function run(scenario: string, make: () => SyntheticOptions): Outcome[] {
@@ -74,6 +75,7 @@ function run(scenario: string, make: () => SyntheticOptions): Outcome[] {
       z: r.identification.shift?.z ?? null,
       zSigma: r.identification.shift?.z_sigma ?? null,
       lines: s.lineCount,
+      yaml: s.yaml,
     });
   }
   return out;
@@ -137,6 +139,7 @@ if (args.includes('--show-wrong')) {
     console.log(
       `WRONG ${r.scenario}: truth ${r.truth.join('+')} z=${r.zTrue?.toFixed(4)} → ${r.answer.join('+')} z=${r.z?.toFixed(4)} (${pct(r.confidence)}), ${r.lines} lines`,
     );
+    if (args.includes('--yaml')) console.log(r.yaml);
   }
 }
 

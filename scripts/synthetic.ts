@@ -50,6 +50,46 @@ export function visibleLines(
   return out.sort((x, y) => y.intensity - x.intensity);
 }
 
+/** Features closer than fwhm_nm to their neighbour, merged: intensity-weighted centre, summed intensity. */
+function mergeUnresolved(
+  rows: readonly Feature[],
+  fwhm_nm: number,
+): { wavelength: number; intensity: number; owners: Set<string | null> }[] {
+  const sorted = [...rows].sort((a, b) => a.wavelength - b.wavelength);
+  const out: {
+    wavelength: number;
+    intensity: number;
+    weighted: number;
+    last: number;
+    owners: Set<string | null>;
+  }[] = [];
+  for (const r of sorted) {
+    const prev = out.at(-1);
+    if (prev && r.wavelength - prev.last < fwhm_nm) {
+      prev.weighted += r.wavelength * r.intensity;
+      prev.intensity += r.intensity;
+      prev.wavelength = prev.weighted / prev.intensity;
+      prev.last = r.wavelength;
+      prev.owners.add(r.owner);
+    } else
+      out.push({
+        wavelength: r.wavelength,
+        intensity: r.intensity,
+        weighted: r.wavelength * r.intensity,
+        last: r.wavelength,
+        owners: new Set([r.owner]),
+      });
+  }
+  return out;
+}
+
+/** A feature before the instrument sees it: where, how bright, and which species made it (null: spurious). */
+interface Feature {
+  wavelength: number;
+  intensity: number;
+  owner: string | null;
+}
+
 function poisson(rand: () => number, mean: number): number {
   const limit = Math.exp(-mean);
   let k = 0;
@@ -67,7 +107,7 @@ export function makeSession(
   o: SyntheticOptions,
 ): SyntheticSession | null {
   const z = o.z ?? 0;
-  const rows: { wavelength: number; intensity: number }[] = [];
+  const rows: Feature[] = [];
   const fwhm = Math.max(0.5, 2 * o.sigma_nm);
   for (const s of o.species) {
     const visible = visibleLines(catalog, s, o.range_nm, o.medium, z);
@@ -87,7 +127,7 @@ export function makeSession(
       const observedVac = line.vacuum_nm * (1 + z);
       const shown = o.medium === 'air' ? vacuumToAir(observedVac) : observedVac;
       const intensity = (line.intensity / top) * Math.exp(0.5 * gauss(rand)) * 100;
-      rows.push({ wavelength: shown + o.sigma_nm * gauss(rand), intensity });
+      rows.push({ wavelength: shown, intensity, owner: s });
     }
   }
   const spurious = poisson(rand, o.spuriousMean);
@@ -95,8 +135,22 @@ export function makeSession(
     rows.push({
       wavelength: o.range_nm[0] + rand() * (o.range_nm[1] - o.range_nm[0]),
       intensity: 5 + rand() * 30,
+      owner: null,
     });
   }
+  // What the instrument shows: features closer than one resolution element merge into one
+  // (intensity-weighted centre, summed intensity), and only then is each reading's error added.
+  // Listing unresolvable lines separately would ask the identification to explain readings no
+  // real instrument could have made.
+  const merged = mergeUnresolved(rows, fwhm);
+  // A species must still show two features of its own after merging, else no measurement
+  // could tell it is there (its lines hide inside another species' blends).
+  for (const sp of o.species) {
+    if (merged.filter((m) => m.owners.size === 1 && m.owners.has(sp)).length < 2) return null;
+  }
+  rows.length = 0;
+  for (const r of merged)
+    rows.push({ wavelength: r.wavelength + o.sigma_nm * gauss(rand), intensity: r.intensity, owner: null });
   rows.sort((a, b) => a.wavelength - b.wavelength);
   const shift = o.searchRange
     ? `shift: { redshift: { search: [${o.searchRange[0]}, ${o.searchRange[1]}] } }\n`

@@ -23,6 +23,21 @@ describe('real observations', () => {
     for (const l of r.lines) expect(l.assignment?.species).toBe('Na I');
   });
 
+  it('says when two lines sit closer than the stated resolution (Na D are 0.6 nm apart, NIST ASD, from memory)', () => {
+    const yaml = `lineledger: 1\nsource: { kind: flame }\ninstrument: { resolution_nm: 1 }\nmeasurement: { sigma: 0.5 }\nlines:\n${lines([589.0, 589.6])}\n`;
+    const out = runSession('r.yaml', yaml, catalog);
+    if (!out.ok) throw new Error('did not run');
+    const close = out.warnings.filter((w) => w.code === 'lines-closer-than-resolution');
+    expect(close).toHaveLength(1);
+    expect(close[0]?.message).toContain('0.60 nm apart');
+    expect(close[0]?.message).toContain('1.00 nm');
+    // Positioned at the second line of the pair (line 7 of the file, after the dash).
+    expect([close[0]?.line, close[0]?.col]).toEqual([7, 5]);
+    // At a resolution that separates them, nothing to say.
+    const fine = runSession('r.yaml', yaml.replace('resolution_nm: 1 }', 'resolution_nm: 0.2 }'), catalog);
+    expect(fine.ok && fine.warnings.some((w) => w.code === 'lines-closer-than-resolution')).toBe(false);
+  });
+
   it('a single 589.5 nm reading in a flame is Na I (sodium shows in nearly every flame; common practice)', () => {
     const r = result(
       `lineledger: 1\nsource: { kind: flame }\nmeasurement: { sigma: 0.5 }\nlines:\n${lines([589.5])}\n`,

@@ -57,6 +57,24 @@ describe('unknown redshift', () => {
   });
 });
 
+describe('selections still list the stronger lines of a species they name', () => {
+  it('a 3σ-low Hα is not taken for [N II] 654.8 when [N II] 658.4, about three times brighter, is absent', () => {
+    // [N II] 658.4 / 654.8 ≈ 3 in every nebula (the ratio of their transition probabilities,
+    // Osterbrock & Ferland 2006, ch. 3; from memory). A list that names 654.8 but not 658.4
+    // is not a list of [N II]. Balmer lines from the Rydberg formula; Hα read 1.5 nm short.
+    const z = 0.0859;
+    const offsets: Record<number, number> = { 3: -1.47, 4: 0.05, 5: -0.1, 6: 0.2, 7: -0.3 };
+    const lines = [3, 4, 5, 6, 7].map(
+      (n) => `  - { wavelength: ${(balmerVacuum_nm(n) * (1 + z) + (offsets[n] as number)).toFixed(3)} }`,
+    );
+    const out = identified(
+      `lineledger: 1\nsource: { kind: galaxy }\nmedium: vacuum\ninstrument: { resolution_nm: 1, range_nm: [380, 900] }\nmeasurement: { sigma: 0.5 }\nshift: { redshift: { search: [0, 0.6] } }\ncandidates: { groups: [quasar] }\nlines:\n${lines.join('\n')}\n`,
+    );
+    expect(out.identification.explanation.species).toEqual(['H I']);
+    expect(Math.abs((out.identification.shift?.z ?? 0) - z)).toBeLessThan(0.002);
+  });
+});
+
 describe('absorption and telluric lines', () => {
   it('blames the O₂ A band on the atmosphere, not the star', () => {
     // NIST ASD air wavelengths of Hα, Hβ, Hγ and Na I D; the O₂ A-band head near 759.4 nm (air; Fraunhofer A, from the catalog's telluric rows).

@@ -21,6 +21,8 @@ export interface EvidenceContext {
    * catalog intensities hold; less for a selection or distrusted intensities, see model.ts).
    */
   missWeight: number;
+  /** The same for lines at or above the profiled detection limit (model.ts strongMissWeight). */
+  strongMissWeight: number;
   /** The catalog's intensities do not predict this source's lines: flat detection, no rank term. */
   flatIntensities: boolean;
 }
@@ -41,11 +43,12 @@ export function detectionProbabilities(
   refs: readonly RefLine[],
   threshold: number,
   missWeight = 1,
+  strongMissWeight = missWeight,
 ): { q: Float64Array; missCost: number } {
   const q = Float64Array.from(refs, (r) => (r.intensity >= threshold ? Q_STRONG : Q_WEAK));
   let missCost = 0;
-  for (const p of q) missCost += Math.log1p(-p);
-  return { q, missCost: missWeight * missCost };
+  for (const p of q) missCost += (p === Q_STRONG ? strongMissWeight : missWeight) * Math.log1p(-p);
+  return { q, missCost };
 }
 
 export function rankTerm(
@@ -76,7 +79,7 @@ export function evaluateSpecies(
     null;
   // Distrusted intensities: every line equally likely to show (one threshold below all).
   for (const threshold of ctx.flatIntensities ? [0] : thresholdCandidates(refs)) {
-    const { q, missCost } = detectionProbabilities(refs, threshold, ctx.missWeight);
+    const { q, missCost } = detectionProbabilities(refs, threshold, ctx.missWeight, ctx.strongMissWeight);
     const { matches, gain } = bestMatching({
       lines: ctx.points,
       refs,

@@ -11,6 +11,7 @@ import { redshiftFromVelocity, residualVelocity_km_s } from '../reduce/doppler.j
 import type { MeasuredLine, Reduction } from '../reduce/types.js';
 import { positionOfField } from '../session/normalize.js';
 import { candidateSpecies, isTelluric } from './candidates.js';
+import { closePairs, describeClosePairs } from './closePairs.js';
 import { type EvidenceContext, evaluateSpecies } from './evidence.js';
 import { posterior, selectMixture, speciesPenalty } from './explain.js';
 import type { MeasuredPoint } from './match.js';
@@ -21,6 +22,7 @@ import {
   missWeight,
   pairSigma,
   statusFor,
+  strongMissWeight,
   TENTATIVE_MIN,
   WINDOW_SIGMAS,
 } from './model.js';
@@ -87,6 +89,19 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
       'a reading has zero uncertainty; its window uses the instrument resolution and a 0.005 nm floor',
       'give the real uncertainty of the reading (sigma)',
     );
+  }
+  const pairs = closePairs(reduction.lines, reduction.resolution_nm);
+  if (pairs.length > 0 && reduction.resolution_nm !== null) {
+    const at = pairs[0]?.second as MeasuredLine;
+    warnings.push({
+      file: reduction.session.file,
+      ...at.position,
+      severity: 'warning',
+      code: 'lines-closer-than-resolution',
+      field: `lines[${at.index}]`,
+      message: describeClosePairs(pairs, reduction.resolution_nm),
+      hint: 'state the resolution the instrument really has (instrument.resolution_nm), or remove a line listed twice',
+    });
   }
   const request = reduction.session.shift;
   const core = (r: Reduction) => identifyAtRest(r, catalog);
@@ -205,6 +220,7 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     background_per_nm: Math.max(1, points.length) / (range[1] - range[0]),
     medianSigma_nm: medianSigma,
     missWeight: missWeight(priors.linesListed, flat),
+    strongMissWeight: strongMissWeight(priors.linesListed, flat),
     flatIntensities: flat,
   };
 

@@ -67,6 +67,17 @@ export function missWeight(listed: 'all-seen' | 'selection', distrusted: boolean
   return (listed === 'selection' ? SELECTION_MISS_WEIGHT : 1) * (distrusted ? DISTRUST_MISS_WEIGHT : 1);
 }
 
+/**
+ * Cost weight of a missing line at or above the species' profiled detection limit. A selection
+ * leaves out lines, but an observer who lists a species' line lists its stronger lines too
+ * (nobody names [N II] 654.8 and omits 658.4, three times brighter): where the catalog's
+ * intensities hold, the selection discount covers only the lines weaker than that limit.
+ * Where they do not hold, "stronger" means nothing and the discount covers every line.
+ */
+export function strongMissWeight(listed: 'all-seen' | 'selection', distrusted: boolean): number {
+  return distrusted ? missWeight(listed, distrusted) : 1;
+}
+
 /** A leftover line's best assignment this probable or better is shown as tentative. */
 export const TENTATIVE_MIN = 0.3;
 
