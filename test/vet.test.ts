@@ -62,6 +62,59 @@ describe('vetSession (pure)', () => {
   });
 });
 
+describe('vet: a default uncertainty is said, once', () => {
+  const warned = (text: string) =>
+    vetSession('s.yaml', bytes(text), bundledCatalog()).diagnostics.filter((d) => d.code === 'assumed-sigma');
+
+  it('for angles: one warning at measurement, naming the default (1 arcminute)', () => {
+    const w = warned(
+      'lineledger: 1\nmeasurement:\n  method: grating-angle\n  grating: { lines_per_mm: 300 }\nlines:\n  - angle_deg: 9.43\n  - angle_deg: 10.9\n',
+    );
+    expect(w).toHaveLength(1);
+    expect(w[0]).toMatchObject({ severity: 'warning', field: 'measurement.sigma', line: 3, col: 3 });
+    expect(w[0]!.message).toBe(
+      'no reading uncertainty given for any line; assuming σ = 1′ (0.017°) per angle reading',
+    );
+  });
+  it('for screen positions, counting only the lines that lack one', () => {
+    const w = warned(
+      'lineledger: 1\nmeasurement:\n  method: screen\n  grating: { lines_per_mm: 300 }\n  screen_distance_mm: 500\nlines:\n  - { offset_mm: 82, sigma: 0.5 }\n  - offset_mm: 95\n',
+    );
+    expect(w.map((d) => d.message)).toEqual([
+      'no reading uncertainty given for 1 of the 2 lines; assuming σ = 1 mm per screen position',
+    ]);
+  });
+  it('for pixels, counting the calibration lines too', () => {
+    const w = warned(
+      'lineledger: 1\nmeasurement:\n  method: pixel\n  calibration:\n    lines:\n      - { pixel: 100, wavelength: 435.8 }\n      - { pixel: 500, wavelength: 546.1 }\n      - { pixel: 700, wavelength: 577.0, pixel_sigma: 0.2 }\nlines:\n  - { pixel: 300, sigma: 0.3 }\n',
+    );
+    expect(w.map((d) => d.message)).toEqual([
+      'no reading uncertainty given for 2 calibration lines; assuming σ = 0.5 px per pixel position',
+    ]);
+  });
+  it('not when measurement.sigma is given', () => {
+    expect(
+      warned(
+        'lineledger: 1\nmeasurement:\n  method: grating-angle\n  grating: { lines_per_mm: 300 }\n  sigma: 0.02\nlines:\n  - angle_deg: 9.43\n',
+      ),
+    ).toEqual([]);
+  });
+  it('angle_deg beside angle_left_deg is an error, not one of them dropped silently', () => {
+    const r = vetSession(
+      's.yaml',
+      bytes(
+        'lineledger: 1\nmeasurement:\n  method: grating-angle\n  grating: { lines_per_mm: 300 }\n  sigma: 0.02\nlines:\n  - { angle_deg: 9.43, angle_left_deg: 170.5, angle_right_deg: 189.4 }\n',
+      ),
+      bundledCatalog(),
+    );
+    expect(r.ok).toBe(false);
+    expect(r.diagnostics.find((d) => d.code === 'conflicting-keys')).toMatchObject({
+      field: 'lines[0].angle_deg',
+      line: 7,
+    });
+  });
+});
+
 describe('lineledger vet (command line)', () => {
   it('passes every demo session with exit 0 and a summary line', () => {
     const n = readdirSync('data/sessions').filter((f) => /\.ya?ml$/.test(f)).length;

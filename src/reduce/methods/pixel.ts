@@ -9,6 +9,7 @@
 import { DEG_PER_RAD } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
 import type { CalibrationPoint, RawLine, Session } from '../../session/types.js';
+import { assumedSigmaWarning } from '../assumedSigma.js';
 import { outOfOrderPoint } from '../fit/order.js';
 import {
   evaluateDerivative,
@@ -64,9 +65,19 @@ export function reducePixels(session: Session): MethodResult {
       ],
     };
   }
-  if (calibration.zero_order_pixel !== null)
-    return reduceSlitless(session, calibration, calibration.zero_order_pixel);
-  return reducePolynomial(session, calibration);
+  const slitless = calibration.zero_order_pixel;
+  // The polynomial fit weights its calibration lines by their pixel σ; the slitless mode only checks them.
+  const pointsWithout = slitless === null ? calibration.points.filter((p) => !(p.pixel_sigma > 0)).length : 0;
+  const assumed = assumedSigmaWarning(
+    session,
+    `${DEFAULT_PIXEL_SIGMA_PX} px per pixel position`,
+    pointsWithout,
+  );
+  const result =
+    slitless !== null
+      ? reduceSlitless(session, calibration, slitless)
+      : reducePolynomial(session, calibration);
+  return assumed ? { ...result, diagnostics: [assumed, ...result.diagnostics] } : result;
 }
 
 /** Pixel σ of a measured line: its own, else the session's, else the default. */
