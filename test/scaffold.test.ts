@@ -2,11 +2,11 @@
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { dirname, join, resolve } from 'node:path';
+import { dirname, isAbsolute, join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { reduceSession } from '../src/reduce/reduce.js';
 import { readSessionText } from '../src/session/read.js';
-import { schemaReference, sessionTemplate } from '../src/session/scaffold.js';
+import { dateFromFileName, schemaReference, sessionTemplate } from '../src/session/scaffold.js';
 import { METHODS } from '../src/session/schema.js';
 import type { MeasurementMethod } from '../src/session/types.js';
 
@@ -81,15 +81,38 @@ describe('session templates', () => {
 });
 
 describe('schemaReference', () => {
-  it('is relative inside the package and absolute outside it', () => {
+  it('is the path from the new file to the schema, inside the project or not', () => {
     const root = resolve('/opt/pkg');
     const schema = join(root, 'schema', 'session-1.schema.json');
-    expect(schemaReference(join(root, 'data', 'sessions'), root, schema)).toBe(
-      '../../schema/session-1.schema.json',
-    );
-    expect(schemaReference(root, root, schema)).toBe('schema/session-1.schema.json');
-    expect(schemaReference(resolve('/home/club/sessions'), root, schema)).toBe(schema.split('\\').join('/'));
-    expect(schemaReference(resolve('/opt/pkg-other'), root, schema)).toBe(schema.split('\\').join('/'));
+    expect(schemaReference(join(root, 'data', 'sessions'), root, schema)).toEqual({
+      ref: '../../schema/session-1.schema.json',
+      inside: true,
+    });
+    expect(schemaReference(root, root, schema)).toEqual({
+      ref: 'schema/session-1.schema.json',
+      inside: true,
+    });
+    // An archive of its own with lineledger elsewhere: still relative, but said to lead out.
+    const club = resolve('/home/club');
+    expect(schemaReference(join(club, 'sessions'), club, schema)).toEqual({
+      ref: '../../../opt/pkg/schema/session-1.schema.json',
+      inside: false,
+    });
+  });
+});
+
+describe('dateFromFileName', () => {
+  it.each([
+    ['sessions/2026-06-01-tube.yaml', '2026-06-01'],
+    ['2026-06-01.yaml', '2026-06-01'],
+    ['C:\\club\\2024-02-29 lamp.yml', '2024-02-29'],
+    // No such day (Gregorian calendar: 2026 is no leap year).
+    ['2026-02-29-tube.yaml', null],
+    ['20260601-tube.yaml', null],
+    ['2026-06-012.yaml', null],
+    ['tube-2026-06-01.yaml', null],
+  ])('%s → %s', (name, want) => {
+    expect(dateFromFileName(name)).toBe(want);
   });
 });
 
@@ -108,9 +131,14 @@ describe('lineledger new (command line)', () => {
     const local = (d: Date) =>
       `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
     expect([local(before), local(new Date())]).toContain(date);
-    // Outside the package folder the schema is named by its absolute path, and it exists.
+    // Outside this repository the schema is still named relative to the new file (an absolute
+    // path names one machine), and the output says that it leads out of the project.
     const ref = /\$schema=(.+)$/m.exec(text)?.[1] ?? '';
-    expect(existsSync(ref)).toBe(true);
+    expect(isAbsolute(ref)).toBe(false);
+    expect(existsSync(join(dirname(file), ref))).toBe(true);
+    expect(made.stderr).toContain('the $schema path on the first line leads out of this project');
+    // The id is not the file name: said, not silent.
+    expect(made.stderr).toContain('the id is tube-c-2nd-try, not "Tube C (2nd try)"');
 
     writeFileSync(file, 'mine');
     const again = run(['new', file, '--method', 'pixel']);
@@ -121,12 +149,33 @@ describe('lineledger new (command line)', () => {
     expect(readFileSync(file, 'utf8')).toContain('  method: pixel');
   });
 
+  it('takes the date from a file name that starts with one, and is silent about an id equal to the name', () => {
+    const file = join(mkdtempSync(join(tmpdir(), 'll-new-')), '2026-06-01-tube.yaml');
+    const made = run(['new', file, '--method', 'wavelength']);
+    expect(made.status, made.stderr).toBe(0);
+    const text = readFileSync(file, 'utf8');
+    expect(/^date: (\S+)/m.exec(text)?.[1]).toBe('2026-06-01');
+    expect(/^id: (\S+)/m.exec(text)?.[1]).toBe('2026-06-01-tube');
+    expect(made.stderr).toContain('date 2026-06-01 from the file name');
+    expect(made.stderr).not.toContain('the id is');
+  });
+
+  it('says so when a file name becomes a different id', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'll-new-'));
+    const made = run(['new', join(dir, 'Bad_Name.yaml'), '--method', 'pixel']);
+    expect(made.status, made.stderr).toBe(0);
+    expect(/^id: (\S+)/m.exec(readFileSync(join(dir, 'Bad_Name.yaml'), 'utf8'))?.[1]).toBe('bad-name');
+    expect(made.stderr).toContain('the id is bad-name, not "Bad_Name"');
+  });
+
   it('points at the schema by a relative path inside this repository', () => {
     const file = join('test-artifacts', `new-${process.pid}`, 'x.yaml');
-    expect(run(['new', file, '--method', 'wavelength']).status).toBe(0);
+    const made = run(['new', file, '--method', 'wavelength']);
+    expect(made.status).toBe(0);
     const ref = /\$schema=(.+)$/m.exec(readFileSync(file, 'utf8'))?.[1] ?? '';
     expect(ref).toBe('../../schema/session-1.schema.json');
     expect(existsSync(join(dirname(file), ref))).toBe(true);
+    expect(made.stderr).not.toContain('leads out of this project');
   });
 
   it('exits 2 for a bad method or a name the build would not read', () => {

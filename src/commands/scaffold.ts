@@ -1,13 +1,14 @@
 /**
  * `lineledger new FILE --method M [--force]`: write a session template to fill in. The one
- * place the wall clock is right: the template's date is the day the user creates the file.
+ * place the wall clock is right: without a date at the start of the file name, the template's
+ * date is the day the user creates the file.
  */
 import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
+import { basename, dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { type Command, Option } from 'commander';
 import { safeIdFromFileName } from '../session/read.js';
-import { schemaReference, sessionTemplate } from '../session/scaffold.js';
+import { dateFromFileName, schemaReference, sessionTemplate } from '../session/scaffold.js';
 import { METHODS } from '../session/schema.js';
 import type { MeasurementMethod } from '../session/types.js';
 import { checkFileTarget } from '../write/guard.js';
@@ -24,6 +25,24 @@ function localDate(now: Date): string {
   return `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`;
 }
 
+/** Files that mark the top of an archive or project. */
+const PROJECT_MARKERS = ['.git', 'lineledger.yaml', 'package.json'];
+
+/**
+ * The project a new file belongs to: the nearest folder above it that holds a git work tree,
+ * a lineledger.yaml or a package.json; else the current folder when the file is inside it;
+ * else the file's own folder.
+ */
+function projectRootOf(dir: string): string {
+  for (let d = dir; ; d = dirname(d)) {
+    if (PROJECT_MARKERS.some((m) => existsSync(join(d, m)))) return d;
+    if (dirname(d) === d) break;
+  }
+  const cwd = process.cwd();
+  const rel = relative(cwd, dir);
+  return rel.startsWith('..') || resolve(cwd, rel) !== dir ? dir : cwd;
+}
+
 function scaffold(file: string, opts: { method: MeasurementMethod; force?: boolean }): number {
   if (!/\.ya?ml$/i.test(file))
     throw new CommandFailure(`${file}: a session file name must end in .yaml (the build reads only those)`);
@@ -37,21 +56,31 @@ function scaffold(file: string, opts: { method: MeasurementMethod; force?: boole
   const refused = opts.force ? checkFileTarget(file, [], true) : null;
   if (refused) throw new CommandFailure(refused);
   const root = packageRoot();
-  const text = sessionTemplate({
-    method: opts.method,
-    date: localDate(new Date()),
-    id: safeIdFromFileName(file),
-    schemaRef: schemaReference(dirname(target), root, join(root, 'schema', 'session-1.schema.json')),
-  });
+  const schemaFile = join(root, 'schema', 'session-1.schema.json');
+  const schema = schemaReference(dirname(target), projectRootOf(dirname(target)), schemaFile);
+  const named = dateFromFileName(file);
+  const date = named ?? localDate(new Date());
+  const id = safeIdFromFileName(file);
+  const text = sessionTemplate({ method: opts.method, date, id, schemaRef: schema.ref });
   try {
     mkdirSync(dirname(target), { recursive: true });
     writeFileSync(target, text, { flag: opts.force ? 'w' : 'wx' });
   } catch (e) {
     throw new CommandFailure(`cannot write ${file}: ${(e as Error).message}`);
   }
-  process.stderr.write(
-    `lineledger: wrote ${file} (method ${opts.method}); fill in every ~ marked FILL IN, then run: lineledger vet ${file}\n`,
-  );
+  const out = [
+    `lineledger: wrote ${file} (method ${opts.method}, date ${date}${named ? ' from the file name' : ', today'}); fill in every ~ marked FILL IN, then run: lineledger vet ${file}`,
+  ];
+  const stem = basename(file).replace(/\.ya?ml$/i, '');
+  if (id !== stem)
+    out.push(
+      `lineledger: the id is ${id}, not "${stem}": an id holds only lower-case letters, digits and dashes (it names the page's folder); change id: in the file to choose another`,
+    );
+  if (!schema.inside)
+    out.push(
+      `lineledger: the $schema path on the first line leads out of this project, to the lineledger program at ${root}; it works on this computer only (install lineledger in the project, npm install --save-dev lineledger, and run new again for a path that travels with it)`,
+    );
+  process.stderr.write(`${out.join('\n')}\n`);
   return EXIT_OK;
 }
 

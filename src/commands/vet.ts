@@ -11,6 +11,7 @@ import { readSessionInput } from '../build.js';
 import { compareDiagnostics, type Diagnostic } from '../diagnostics.js';
 import { candidateSpecies } from '../identify/candidates.js';
 import type { Catalog } from '../lines/types.js';
+import { outOfRangeWarnings } from '../reduce/range.js';
 import { reduceSession } from '../reduce/reduce.js';
 import { type ReadOptions, readSessionText } from '../session/read.js';
 import { parseFieldName, parseYamlSource } from '../session/yamlSource.js';
@@ -56,7 +57,9 @@ export function vetSession(
     return { file, ok: false, id: null, diagnostics: [...read.diagnostics].sort(compareDiagnostics) };
   const found: Diagnostic[] = [...read.warnings];
   const reduced = reduceSession(read.value);
-  found.push(...(reduced.ok ? reduced.warnings : reduced.diagnostics));
+  found.push(
+    ...(reduced.ok ? [...reduced.warnings, ...outOfRangeWarnings(reduced.value)] : reduced.diagnostics),
+  );
   found.push(...candidateSpecies(read.value, catalog).warnings);
   const text = new TextDecoder().decode(bytes);
   const diagnostics = placed(found, text, file).sort(compareDiagnostics);

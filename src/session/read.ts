@@ -3,11 +3,12 @@
  * YAML, structure limits, schema, then the semantic checks; every problem of the file
  * comes back together.
  */
-import type { Diagnostic, Outcome, SourcePosition } from '../diagnostics.js';
+import { compareDiagnostics, type Diagnostic, type Outcome, type SourcePosition } from '../diagnostics.js';
 import { isReservedId, SESSION_LIMITS, type SessionLimits } from './limits.js';
 import { normalizeSession, sessionIdFromFileName } from './normalize.js';
+import { overlaps, pruneProblems } from './prune.js';
 import type { InstrumentSpec, Session } from './types.js';
-import { validateDocument } from './validate.js';
+import { isSessionDocument, validateDocument } from './validate.js';
 import { parseFieldName, parseYamlSource, type YamlSource } from './yamlSource.js';
 
 export type ReadLimits = SessionLimits;
@@ -215,28 +216,38 @@ export function readSessionText(
       ],
     };
   const validated = validateDocument(source, file);
-  if (!validated.document)
-    return { ok: false, diagnostics: unique(validated.diagnostics.map((d) => clarify(d, source))) };
-  const document = validated.document;
-  if (document.id !== undefined && isReservedId(document.id)) {
-    return {
-      ok: false,
-      diagnostics: [
-        {
-          file,
-          ...source.positionOf(['id']),
-          severity: 'error',
-          code: 'reserved-id',
-          field: 'id',
-          message: `"${document.id}" is a device name on Windows and cannot be a folder name there`,
-          hint: `choose another id, such as ${document.id}-1`,
-        },
-      ],
-    };
+  const errors = unique(validated.diagnostics.map((d) => clarify(d, source)));
+  // With schema problems, the semantic checks still look at the rest of the file (prune.ts),
+  // so that an unknown key does not hide a wrong date or an impossible reading.
+  let document = validated.document;
+  let removed: string[] = [];
+  if (!document) {
+    const rest = validated.problemPaths && pruneProblems(source.data, validated.problemPaths);
+    if (!rest || !isSessionDocument(rest.data)) return { ok: false, diagnostics: errors };
+    document = rest.data;
+    removed = rest.removed;
   }
+  if (document.id !== undefined && isReservedId(document.id))
+    errors.push({
+      file,
+      ...source.positionOf(['id']),
+      severity: 'error',
+      code: 'reserved-id',
+      field: 'id',
+      message: `"${document.id}" is a device name on Windows and cannot be a folder name there`,
+      hint: `choose another id, such as ${document.id}-1`,
+    });
   const named = document.id === undefined ? { ...document, id: safeIdFromFileName(file) } : document;
   const normalized = normalizeSession(named, source, file, bytes, options.instrumentDefaults ?? null);
-  if (!normalized.session) return { ok: false, diagnostics: normalized.diagnostics };
+  if (errors.length > 0 || !normalized.session) {
+    // A check of a field that was taken out (or of what holds it) would only repeat its problem.
+    const more = normalized.diagnostics.filter((d) => !removed.some((f) => overlaps(d.field, f)));
+    const all =
+      errors.length > 0 && more.length > 0
+        ? [...errors, ...more].sort(compareDiagnostics)
+        : [...errors, ...more];
+    return { ok: false, diagnostics: all };
+  }
   const warnings = [...normalized.diagnostics];
   // A name without a letter or digit an id can hold: the id is made up, so say which.
   if (document.id === undefined && /^session-[0-9a-f]{8}$/.test(named.id ?? ''))

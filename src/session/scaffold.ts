@@ -1,6 +1,6 @@
 /**
  * Templates for a new session file, one per measurement method. Pure: the date, the id
- * and the schema reference come in as parameters (the command supplies today's date).
+ * and the schema reference come in as parameters (the command supplies the date).
  *
  * Every value the user must supply is left empty (`~`, YAML's null) with a comment that
  * says what goes there, so an unfilled template does not read: `lineledger vet` points at
@@ -8,11 +8,12 @@
  * if they were measurements; empty ones cannot.
  */
 import { isAbsolute, relative, sep } from 'node:path';
+import { impossibleDate } from './plausible.js';
 import type { MeasurementMethod } from './types.js';
 
 export interface ScaffoldInput {
   method: MeasurementMethod;
-  /** ISO date (YYYY-MM-DD) the file is created, written as the session date. */
+  /** ISO date (YYYY-MM-DD) written as the session date: the file name's, else the day it is created. */
   date: string;
   id: string;
   /** What the `$schema=` comment points at: a relative path or an absolute one. */
@@ -20,14 +21,33 @@ export interface ScaffoldInput {
 }
 
 /**
- * The schema reference for a new file: relative from the file's folder when the file is
- * inside the package's own folder (this repository), else the schema's absolute path.
- * Both paths must be absolute.
+ * The schema reference for a new file: the path from the file's folder to the schema, so that
+ * it stays right when the archive is moved or cloned (an absolute path names one machine).
+ * `inside` says whether the schema lies inside the file's project: if not, the path leads to
+ * this installation of lineledger, which others who clone the archive will not have. Both
+ * folders and the schema path must be absolute.
  */
-export function schemaReference(newFileDir: string, packageRoot: string, schemaFile: string): string {
-  const inside = relative(packageRoot, newFileDir);
-  if (inside.startsWith('..') || isAbsolute(inside)) return schemaFile.split(sep).join('/');
-  return relative(newFileDir, schemaFile).split(sep).join('/');
+export function schemaReference(
+  newFileDir: string,
+  projectRoot: string,
+  schemaFile: string,
+): { ref: string; inside: boolean } {
+  const within = relative(projectRoot, schemaFile);
+  const inside = !within.startsWith('..') && !isAbsolute(within);
+  // On Windows a schema on another drive has no relative path: then only the absolute one works.
+  const rel = relative(newFileDir, schemaFile);
+  return { ref: (isAbsolute(rel) ? schemaFile : rel).split(sep).join('/'), inside };
+}
+
+/**
+ * The date a file name starts with (`2026-06-01-tube.yaml` → 2026-06-01), when it is a real
+ * calendar date; null otherwise.
+ */
+export function dateFromFileName(fileName: string): string | null {
+  const base = fileName.replace(/^.*[\\/]/, '');
+  const m = /^(\d{4}-\d{2}-\d{2})(?![\d])/.exec(base);
+  if (!m?.[1]) return null;
+  return impossibleDate(m[1]) === null ? m[1] : null;
 }
 
 const MEASUREMENT: Record<MeasurementMethod, string> = {

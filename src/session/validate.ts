@@ -40,19 +40,31 @@ function expectText(error: ErrorObject): string | undefined {
   return typeof text === 'string' ? text : undefined;
 }
 
-export function validateDocument(
-  source: YamlSource,
-  file: string,
-): { document: SessionDocument | null; diagnostics: Diagnostic[] } {
+export function validateDocument(source: YamlSource, file: string): SchemaCheck<SessionDocument> {
   return validateWith(validateSession(), source, file);
+}
+
+/** Whether a value passes the session schema (the pruned copy of a document, see prune.ts). */
+export function isSessionDocument(data: unknown): data is SessionDocument {
+  return validateSession()(data);
+}
+
+export interface SchemaCheck<T> {
+  document: T | null;
+  diagnostics: Diagnostic[];
+  /**
+   * Where the schema's problems are: an unknown key's own path, an invalid value's path.
+   * Null when some problem is a missing key (nothing there to take out).
+   */
+  problemPaths: FieldPath[] | null;
 }
 
 export function validateWith<T>(
   validate: ValidateFunction<T>,
   source: YamlSource,
   file: string,
-): { document: T | null; diagnostics: Diagnostic[] } {
-  if (validate(source.data)) return { document: source.data, diagnostics: [] };
+): SchemaCheck<T> {
+  if (validate(source.data)) return { document: source.data, diagnostics: [], problemPaths: [] };
   const errors = validate.errors ?? [];
   // Unions by the value they are about, so each error looks only at the unions of its own
   // value and its parents (linear in the errors: 4000 bad lines took seconds comparing all pairs).
@@ -68,7 +80,17 @@ export function validateWith<T>(
   };
   const shown = errors.filter((e) => !underUnion(e));
   const diagnostics = shown.map((e) => toDiagnostic(e, source, file));
-  return { document: null, diagnostics };
+  const problemPaths = shown.some((e) => e.keyword === 'required')
+    ? null
+    : shown.map((e) =>
+        e.keyword === 'additionalProperties'
+          ? [
+              ...pathOf(e.instancePath),
+              String((e.params as { additionalProperty: string }).additionalProperty),
+            ]
+          : pathOf(e.instancePath),
+      );
+  return { document: null, diagnostics, problemPaths };
 }
 
 /** Usual other spellings of allowed words (unit symbols, capitals). */

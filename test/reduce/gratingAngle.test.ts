@@ -79,7 +79,9 @@ describe('grating equation, worked values', () => {
     const expected = d * Math.cos((9.429 * Math.PI) / 180) * (Math.PI / 180 / 60);
     // reduce reports σ in vacuum: undo the air→vacuum slope.
     expect(r.lines[0]!.sigma_nm / vacuumPerAirSlope(r.lines[0]!.air_nm) / expected).toBeCloseTo(1, 9);
-    expect(r.warnings).toEqual([]);
+    // The default is used, so it is said (once), not applied silently.
+    expect(r.warnings.map((w) => [w.code, w.field])).toEqual([['assumed-sigma', 'measurement.sigma']]);
+    expect(r.warnings[0]!.message).toContain('1′');
   });
 
   it('a spacing uncertainty adds λ·σ_d/d in quadrature', () => {

@@ -188,8 +188,29 @@ describe('pixel calibration: bad and doubtful input', () => {
       { pixel: 700, wavelength: 660 },
       { pixel: 900, wavelength: 640 },
     ];
-    const d = expectPositioned(failures(pixelSession(points, [400], 2)), 'non-monotonic-fit');
-    expect(d.line).toBe(8);
+    // Points at the line that breaks the order (660 → 640 nm), not at the first one.
+    const d = expectPositioned(
+      failures(pixelSession(points, [400], 2)),
+      'non-monotonic-fit',
+      'measurement.calibration.lines[4]',
+    );
+    expect(d.line).toBe(12);
+    expect(d.message).toContain('pixel 900, 640 nm');
+  });
+
+  it('a mislabelled calibration line in the middle is the one named', () => {
+    // A straight law (common practice for a small grating spectrometer) with the line at
+    // pixel 400 given the wavelength of the line at 800: out of order with both neighbours.
+    const lam = (p: number) => 400 + 0.3 * p;
+    const pixels = [100, 200, 300, 400, 500, 600, 700, 800];
+    const points = pixels.map((pixel) => ({ pixel, wavelength: lam(pixel === 400 ? 800 : pixel) }));
+    const d = expectPositioned(
+      failures(pixelSession(points, [450], 3)),
+      'non-monotonic-fit',
+      'measurement.calibration.lines[3]',
+    );
+    expect(d.line).toBe(11);
+    expect(d.message).toContain('pixel 400, 640 nm');
   });
 
   it('a measured pixel beyond the turning point also counts (the range includes the lines)', () => {
@@ -197,7 +218,13 @@ describe('pixel calibration: bad and doubtful input', () => {
     const q = (p: number) => 400 + 0.6 * p - 0.0004 * p * p;
     const points = [100, 200, 300, 400, 500].map((pixel) => ({ pixel, wavelength: q(pixel) }));
     expect(reduced(pixelSession(points, [450], 2)).lines[0]!.vacuum_nm).toBeCloseTo(q(450), 6);
-    expectPositioned(failures(pixelSession(points, [900], 2)), 'non-monotonic-fit');
+    // The calibration lines are in order: the measured line past the turn is the one named.
+    const d = expectPositioned(
+      failures(pixelSession(points, [450, 900], 2)),
+      'non-monotonic-fit',
+      'lines[1].pixel',
+    );
+    expect(d.line).toBe(15);
   });
 
   it('extrapolation beyond the calibration lines is a warning', () => {

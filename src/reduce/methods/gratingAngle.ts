@@ -4,8 +4,10 @@
  * zeroth order (angle_left_deg, angle_right_deg) as θ = |L − R| / 2, which cancels the table's
  * unknown zero offset. Then the grating equation (see ../grating.ts).
  */
+
 import type { Diagnostic } from '../../diagnostics.js';
 import type { RawLine, Session } from '../../session/types.js';
+import { assumedSigmaWarning } from '../assumedSigma.js';
 import {
   formatDegMin,
   type GratingSetup,
@@ -34,6 +36,11 @@ interface AngleReading {
 
 export function reduceGratingAngles(session: Session): MethodResult {
   const { setup, diagnostics } = gratingSetupOf(session);
+  const assumed = assumedSigmaWarning(
+    session,
+    `${DEFAULT_ANGLE_SIGMA_DEG * 60}′ (${DEFAULT_ANGLE_SIGMA_DEG.toFixed(3)}°) per angle reading`,
+  );
+  if (assumed) diagnostics.push(assumed);
   const readings: ObservedReading[] = [];
   if (setup) {
     for (const line of session.lines) {

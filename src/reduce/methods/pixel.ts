@@ -9,6 +9,8 @@
 import { DEG_PER_RAD } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
 import type { CalibrationPoint, RawLine, Session } from '../../session/types.js';
+import { assumedSigmaWarning } from '../assumedSigma.js';
+import { outOfOrderPoint } from '../fit/order.js';
 import {
   evaluateDerivative,
   evaluatePolynomial,
@@ -63,9 +65,19 @@ export function reducePixels(session: Session): MethodResult {
       ],
     };
   }
-  if (calibration.zero_order_pixel !== null)
-    return reduceSlitless(session, calibration, calibration.zero_order_pixel);
-  return reducePolynomial(session, calibration);
+  const slitless = calibration.zero_order_pixel;
+  // The polynomial fit weights its calibration lines by their pixel σ; the slitless mode only checks them.
+  const pointsWithout = slitless === null ? calibration.points.filter((p) => !(p.pixel_sigma > 0)).length : 0;
+  const assumed = assumedSigmaWarning(
+    session,
+    `${DEFAULT_PIXEL_SIGMA_PX} px per pixel position`,
+    pointsWithout,
+  );
+  const result =
+    slitless !== null
+      ? reduceSlitless(session, calibration, slitless)
+      : reducePolynomial(session, calibration);
+  return assumed ? { ...result, diagnostics: [assumed, ...result.diagnostics] } : result;
 }
 
 /** Pixel σ of a measured line: its own, else the session's, else the default. */
@@ -191,6 +203,73 @@ function turningPixels(coefficients: readonly number[], origin: number, lo: numb
   return roots.map((u) => u + origin).filter((p) => Number.isFinite(p) && p > lo && p < hi);
 }
 
+/**
+ * The fit turns over: say where, at the line that causes it. A calibration line out of order
+ * with the others is the usual cause; with the calibration lines in order, a measured line
+ * beyond the turn (outside the calibration lines) is; otherwise the calibration line nearest
+ * the turn.
+ */
+function nonMonotonic(
+  session: Session,
+  points: readonly CalibrationPoint[],
+  turns: readonly number[],
+  degree: number,
+  lo: number,
+  hi: number,
+): Diagnostic {
+  const unit =
+    session.measurement.unit === 'angstrom' ? 'Å' : session.measurement.unit === 'um' ? 'µm' : 'nm';
+  const head = `the degree-${degree} fit turns over at pixel ${turns.map((t) => t.toFixed(1)).join(', ')}, inside the used range ${lo}–${hi}: one wavelength would sit at two pixels`;
+  const pixels = points.map((p) => p.pixel);
+  const culprit = outOfOrderPoint(
+    pixels,
+    points.map((p) => p.wavelength),
+  );
+  if (culprit !== null) {
+    const p = points[culprit]!;
+    return pointDiagnostic(
+      session,
+      p,
+      culprit,
+      'non-monotonic-fit',
+      `${head}; this calibration line (pixel ${p.pixel}, ${p.wavelength} ${unit}) is out of order with the others`,
+      'check its pixel and its wavelength (a mislabelled line?), or lower the degree',
+      'error',
+    );
+  }
+  const calLo = Math.min(...pixels);
+  const calHi = Math.max(...pixels);
+  const beyond = session.lines.find(
+    (l) =>
+      l.pixel !== null &&
+      (l.pixel < calLo || l.pixel > calHi) &&
+      turns.some((t) => (l.pixel! > calHi ? t >= calHi && t < l.pixel! : t <= calLo && t > l.pixel!)),
+  );
+  if (beyond)
+    return lineDiagnostic(
+      session,
+      beyond,
+      'pixel',
+      'non-monotonic-fit',
+      `${head}; this line (pixel ${beyond.pixel}) lies beyond the turn, outside the calibration lines (${calLo}–${calHi})`,
+      'add a calibration line near this pixel, or lower the degree',
+    );
+  const turn = turns[0]!;
+  const nearest = pixels.reduce(
+    (best, px, i) => (Math.abs(px - turn) < Math.abs(pixels[best]! - turn) ? i : best),
+    0,
+  );
+  return pointDiagnostic(
+    session,
+    points[nearest]!,
+    nearest,
+    'non-monotonic-fit',
+    `${head}; the calibration lines are in order, and this one is nearest the turn`,
+    'lower the degree, or add calibration lines around this pixel',
+    'error',
+  );
+}
+
 function reducePolynomial(session: Session, calibration: Calibration): MethodResult {
   const diagnostics: Diagnostic[] = [];
   const degree = calibration.degree;
@@ -258,15 +337,7 @@ function reducePolynomial(session: Session, calibration: Calibration): MethodRes
   const lo = Math.min(...pixels, ...measured);
   const hi = Math.max(...pixels, ...measured);
   const turns = turningPixels(fit.coefficients, fit.origin, lo, hi);
-  if (turns.length > 0) {
-    diagnostics.push(
-      atCalibration(
-        'non-monotonic-fit',
-        `the degree-${degree} fit turns over at pixel ${turns.map((t) => t.toFixed(1)).join(', ')}, inside the used range ${lo}–${hi}: one wavelength would sit at two pixels`,
-        'lower the degree, or check the calibration lines for a mislabelled one',
-      ),
-    );
-  }
+  if (turns.length > 0) diagnostics.push(nonMonotonic(session, points, turns, degree, lo, hi));
   const calLo = Math.min(...pixels);
   const calHi = Math.max(...pixels);
   const readings: ObservedReading[] = [];

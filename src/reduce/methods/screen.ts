@@ -6,6 +6,7 @@
 import { DEG_PER_RAD } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
 import type { RawLine, Session } from '../../session/types.js';
+import { assumedSigmaWarning } from '../assumedSigma.js';
 import {
   type GratingSetup,
   gratingSetupOf,
@@ -54,6 +55,8 @@ export function reduceScreen(session: Session): MethodResult {
       ),
     );
   }
+  const assumed = assumedSigmaWarning(session, `${DEFAULT_SCREEN_SIGMA_MM} mm per screen position`);
+  if (assumed) diagnostics.push(assumed);
   const readings: ObservedReading[] = [];
   if (setup && distance_mm !== null && distance_mm > 0 && distanceSigma_mm >= 0) {
     for (const line of session.lines) {
