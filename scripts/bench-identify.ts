@@ -7,9 +7,11 @@
  *   --n N        sessions per scenario (default 200)
  *   --fit        also fit the Platt scaling of the confidence (src/identify/model.ts) on these results
  */
+import { writeFileSync } from 'node:fs';
 import { calibratedConfidence } from '../src/identify/model.js';
 import { loadCatalog } from '../src/lines/load.js';
 import { runSession } from '../src/pipeline.js';
+import { fitPlatt, type RawOutcome } from './platt.js';
 import { makeSession, rng, type SyntheticOptions, visibleLines } from './synthetic.js';
 
 const args = process.argv.slice(2);
@@ -209,36 +211,17 @@ function reliability(confidenceOf: (r: Outcome) => number, label: string) {
 }
 reliability((r) => r.confidence, 'as reported');
 
+if (args.includes('--dump-raw')) {
+  const file = args[args.indexOf('--dump-raw') + 1] as string;
+  const rows: RawOutcome[] = results.map((r) => ({ raw: r.rawConfidence, right: same(r.answer, r.truth) }));
+  writeFileSync(file, `${JSON.stringify(rows)}\n`);
+  console.log(`wrote ${rows.length} raw confidences to ${file}`);
+}
+
 if (FIT) {
-  // Platt scaling: logistic regression of "exactly right" on logit(raw confidence), by Newton's method.
-  const xs = results.map((r) => {
-    const p = Math.min(1 - 1e-9, Math.max(1e-9, r.rawConfidence));
-    return Math.log(p / (1 - p));
-  });
-  const ys = results.map((r) => (same(r.answer, r.truth) ? 1 : 0));
-  let a = 1;
-  let b = 0;
-  for (let iter = 0; iter < 50; iter++) {
-    let ga = 0;
-    let gb = 0;
-    let haa = 0;
-    let hab = 0;
-    let hbb = 0;
-    xs.forEach((x, i) => {
-      const p = 1 / (1 + Math.exp(-(a * x + b)));
-      const g = (ys[i] as number) - p;
-      const w = p * (1 - p) + 1e-9;
-      ga += g * x;
-      gb += g;
-      haa += w * x * x;
-      hab += w * x;
-      hbb += w;
-    });
-    const det = haa * hbb - hab * hab;
-    if (Math.abs(det) < 1e-12) break;
-    a += (hbb * ga - hab * gb) / det;
-    b += (haa * gb - hab * ga) / det;
-  }
+  const { slope: a, intercept: b } = fitPlatt(
+    results.map((r) => ({ raw: r.rawConfidence, right: same(r.answer, r.truth) })),
+  );
   console.log(
     `\nfit: CONFIDENCE_CALIBRATION = { slope: ${a.toFixed(3)}, intercept: ${b.toFixed(3)} } (Platt scaling on ${results.length} sessions)`,
   );

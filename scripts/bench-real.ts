@@ -4,13 +4,16 @@
  * against the published assignments. Metrics are defined in test/real/README.md.
  *   --half dev|heldout|all   which half to run (default all; each half is reported apart)
  *   --verbose                per-case line table
+ *   --dump-raw FILE          with --half dev: write each case's raw confidence and rightness (for fit-confidence)
  *   --list                   print the cases as a Markdown table (for test/real/README.md) and stop
  */
+import { writeFileSync } from 'node:fs';
 import { defaultConfig } from '../src/config/read.js';
 import type { Identification } from '../src/identify/types.js';
 import { loadCatalog } from '../src/lines/load.js';
 import { runSession } from '../src/pipeline.js';
 import { acceptable, type Half, loadCases, normalizeSpecies, type RealCase } from '../test/real/cases.js';
+import type { RawOutcome } from './platt.js';
 
 const args = process.argv.slice(2);
 const halfArg = args.includes('--half') ? args[args.indexOf('--half') + 1] : 'all';
@@ -56,6 +59,7 @@ interface CaseResult {
   explained: string[];
   status: string;
   confidence: number;
+  rawConfidence: number;
   explanationRight: boolean;
   confidentlyWrong: string | null;
 }
@@ -88,6 +92,7 @@ function score(c: RealCase): CaseResult {
       explained: [],
       status: 'failed',
       confidence: 0,
+      rawConfidence: 0,
       explanationRight: false,
       confidentlyWrong: null,
     };
@@ -129,6 +134,7 @@ function score(c: RealCase): CaseResult {
     explained,
     status: id.explanation.status,
     confidence: id.explanation.confidence,
+    rawConfidence: id.explanation.raw_confidence,
     explanationRight,
     confidentlyWrong,
   };
@@ -222,5 +228,19 @@ if (args.includes('--list')) {
 }
 const halves: Half[] = halfArg === 'all' ? ['dev', 'heldout'] : [halfArg];
 const t0 = performance.now();
-for (const half of halves) report(half, cases.filter((c) => c.half === half).map(score));
+const DUMP = args.includes('--dump-raw') ? (args[args.indexOf('--dump-raw') + 1] as string) : null;
+if (DUMP && halfArg !== 'dev') {
+  // The raw confidences feed the confidence calibration: the held-out half never does.
+  process.stderr.write('--dump-raw needs --half dev\n');
+  process.exit(2);
+}
+for (const half of halves) {
+  const scored = cases.filter((c) => c.half === half).map(score);
+  report(half, scored);
+  if (DUMP) {
+    const rows: RawOutcome[] = scored.map((r) => ({ raw: r.rawConfidence, right: r.explanationRight }));
+    writeFileSync(DUMP, `${JSON.stringify(rows)}\n`);
+    process.stdout.write(`wrote ${rows.length} raw confidences to ${DUMP}\n`);
+  }
+}
 process.stdout.write(`\n${cases.length} case files; ${((performance.now() - t0) / 1000).toFixed(1)} s\n`);

@@ -54,17 +54,19 @@ export function describeExplanation(
     case 'identified':
       return `${names(source)}${sky} (${percent(e.confidence)})${tentative}; ${unexplained}.`;
     case 'ambiguous': {
-      const rivals = e.contenders
+      const named = e.contenders
         .slice(0, 3)
-        .map((c) => (c.species.length ? c.species.map(shown).join(' + ') : 'nothing'))
-        .join(' or ');
+        .map((c) => (c.species.length ? c.species.map(shown).join(' + ') : 'nothing'));
+      // "A or B", "A, B or C": the explanations still in the running.
+      const rivals =
+        named.length > 1 ? `${named.slice(0, -1).join(', ')} or ${named.at(-1)}` : (named[0] ?? 'nothing');
       const decide = e.discriminators[0];
       const unit = medium === 'air' ? decide?.air_nm : decide?.vacuum_nm;
       const hint =
         decide && unit !== undefined
           ? ` — measure ${unit.toFixed(1)} nm (${shown(decide.species)}) to decide`
           : '';
-      return `Ambiguous between ${rivals}${hint}; best guess ${names(source)}${sky} (${percent(e.confidence)})${tentative}; ${unexplained}.`;
+      return `Ambiguous: ${rivals}${hint}; best guess ${names(source)}${sky} (${percent(e.confidence)})${tentative}; ${unexplained}.`;
     }
   }
 }
