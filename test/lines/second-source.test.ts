@@ -262,6 +262,25 @@ describe('coarser published values', () => {
     expect(Math.abs(at(733.073) - at(732.967) - 0.108)).toBeLessThan(0.003);
   });
 
+  it('holds Ba II and Tl I lines named by their labels to 0.1 nm', () =>
+    expectWithin(
+      [
+        // A&A 2015, vol. 581, A70 (aa26558-15), Introduction (stored copy
+        // https://www.aanda.org/articles/aa/full_html/2015/09/aa26558-15/aa26558-15.html): "the
+        // four strongest lines of ionized barium in the visual part of the spectrum ... are
+        // located at 4554, 5853, 6141, and 6496 Å".
+        { species: 'Ba II', medium: 'air', nm: 455.4, printed: '4554' },
+        { species: 'Ba II', medium: 'air', nm: 585.3, printed: '5853' },
+        { species: 'Ba II', medium: 'air', nm: 614.1, printed: '6141' },
+        { species: 'Ba II', medium: 'air', nm: 649.6, printed: '6496' },
+        // Lisicki, Bielski, Szudy & Wolnikowski 1985, Z. Naturforsch. A 40, abstract (stored copy
+        // https://scholar.archive.org/work/vzxvssgzg5eapbjh25pypab6vm): "the 535.0 nm Tl
+        // fluorescence line".
+        { species: 'Tl I', medium: 'air', nm: 535.0, printed: '535.0 nm' },
+      ],
+      0.1,
+    ));
+
   it('holds nebular forbidden lines named by whole-ångström labels to 0.1 nm', () =>
     // Labels only confirm which line a row is, not its wavelength to the catalog's precision.
     expectWithin(
@@ -292,6 +311,14 @@ describe('coarser published values', () => {
         // Paris Observatory astronomy dictionary, "auroral line" (stored copy
         // https://dictionary.obspm.fr/terms/auroral-line/): "wavelengths of 5577 and 6300 Å".
         { species: 'O I', medium: 'air', nm: 557.7, printed: '5577' },
+        // Hägele, Pérez-Montero, Díaz, Terlevich & Terlevich 2006, abstract (stored copy
+        // https://ar5iv.labs.arxiv.org/html/astro-ph/0608244): "the [Siii] λλ 9069,9532 Å
+        // doublet as well as various weak auroral lines such as [Oiii] λ 4363 Å and [Siii] λ 6312 Å".
+        { species: 'S III', medium: 'air', nm: 906.9, printed: 'λ9069' },
+        // (Its "9532" label is not checked: it lies 0.14 nm from the catalog's air 953.06 nm
+        // and 0.12 nm from its vacuum 953.32 nm; papers label this line 9531 or 9532 by habit.)
+        { species: 'S III', medium: 'air', nm: 631.2, printed: 'λ6312' },
+        { species: 'O III', medium: 'air', nm: 436.3, printed: 'λ4363' },
       ],
       0.1,
     ));
