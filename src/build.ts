@@ -49,7 +49,10 @@ export interface BuildOptions {
   programVersion: string;
   /** SOURCE_DATE_EPOCH, when the environment sets it. */
   sourceDateEpoch: string | undefined;
-  /** Worker threads; 1 builds in this thread; 'auto' (default) decides by archive size. */
+  /**
+   * Threads computing sessions, this one included (N − 1 workers); 1 builds in this thread alone;
+   * 'auto' (default) decides by archive size and cores.
+   */
   jobs?: number | 'auto';
   /** The cache folder; null builds everything afresh and keeps no cache. */
   cacheDir?: string | null;
@@ -83,7 +86,7 @@ export interface BuildReport {
   /** Sessions taken from the cache / computed in this build. */
   cached: number;
   computed: number;
-  /** Worker threads used (1: serial; 0: nothing computed). */
+  /** Threads that computed sessions, this one included (1: serial; 0: nothing computed). */
   jobs: number;
   /** The site already was the build's output, so it was left as it was (no swap). */
   unchanged: boolean;
@@ -415,11 +418,15 @@ export async function buildSite(
   let swapped = false;
   try {
     place();
+    const here = async (t: TaskMessage) => {
+      const t0 = performance.now();
+      const unit = await processSession(t.path, t.bytes, { render: ctx, instrumentDefaults }, charts);
+      return { unit, ms: performance.now() - t0 };
+    };
     if (jobs <= 1) {
       for (const t of todo) {
-        const t0 = performance.now();
-        const unit = await processSession(t.path, t.bytes, { render: ctx, instrumentDefaults }, charts);
-        computed(t.index, unit, performance.now() - t0);
+        const { unit, ms } = await here(t);
+        computed(t.index, unit, ms);
       }
     } else {
       const { templates: _compiled, catalog: _catalog, ...render } = ctx;
@@ -434,6 +441,7 @@ export async function buildSite(
           chartDir: store ? store.chartDir : null,
         },
         computed,
+        here,
       );
     }
     const indexCharts = new NotingCache(charts);
