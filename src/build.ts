@@ -90,6 +90,19 @@ export interface BuildReport {
   jobs: number;
   /** The site already was the build's output, so it was left as it was (no swap). */
   unchanged: boolean;
+  /** Where the build's time went (ms): what `--verbose` prints and the bench reads. */
+  timings: BuildTimings;
+}
+
+export interface BuildTimings {
+  /** Listing and reading the sessions, keys, the cache lookup, opening the staging folder. */
+  prepare_ms: number;
+  /** Computing the sessions that were not in the cache (and placing all of them). */
+  sessions_ms: number;
+  /** Rendering and writing the index. */
+  index_ms: number;
+  /** The swap, the manifest and pruning the cache. */
+  finish_ms: number;
 }
 
 export function templatesDir(): string {
@@ -295,6 +308,7 @@ export async function buildSite(
   catalog: Catalog,
   templateTexts: TemplateTexts = readTemplateTexts(),
 ): Promise<BuildReport> {
+  const t0 = performance.now();
   const cacheDir = options.cacheDir === undefined ? defaultCacheDir(options.outDir) : options.cacheDir;
   // Before anything is read or written: the site and cache folders must be ours to replace.
   checkBuildTargets({
@@ -416,6 +430,9 @@ export async function buildSite(
   const jobs = options.jobs === undefined || options.jobs === 'auto' ? autoJobs(todo.length) : options.jobs;
 
   let swapped = false;
+  const t1 = performance.now();
+  let t2 = t1;
+  let t3 = t1;
   try {
     place();
     const here = async (t: TaskMessage) => {
@@ -444,9 +461,11 @@ export async function buildSite(
         here,
       );
     }
+    t2 = performance.now();
     const indexCharts = new NotingCache(charts);
     staging.write(await renderIndexFiles(rows, overview, ctx, indexCharts));
     for (const h of indexCharts.asked) usedCharts.add(h);
+    t3 = performance.now();
     swapped = staging.commit();
   } catch (e) {
     staging.abort();
@@ -462,5 +481,11 @@ export async function buildSite(
     computed: computedCount,
     jobs: computedCount === 0 ? 0 : jobs,
     unchanged: !swapped,
+    timings: {
+      prepare_ms: t1 - t0,
+      sessions_ms: t2 - t1,
+      index_ms: t3 - t2,
+      finish_ms: performance.now() - t3,
+    },
   };
 }

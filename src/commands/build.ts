@@ -104,6 +104,13 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
     process.stderr.write(
       `lineledger: built ${built} of ${report.sessions.length} sessions into ${out}${report.failed ? `; ${report.failed} failed` : ''}${detail}\n`,
     );
+    if (opts.verbose) {
+      const t = report.timings;
+      const ms = (x: number) => `${Math.round(x)} ms`;
+      process.stderr.write(
+        `lineledger: time: reading and cache lookup ${ms(t.prepare_ms)}, sessions ${ms(t.sessions_ms)}, index ${ms(t.index_ms)}, swap and cache upkeep ${ms(t.finish_ms)}\n`,
+      );
+    }
   }
   if (opts.pdf) {
     const pdfCode = await writePdfs(
