@@ -6,6 +6,7 @@
  */
 import { createHash } from 'node:crypto';
 import type { TopLevelSpec } from 'vega-lite';
+import { sharedCodegen } from './codegen.js';
 import { type CompiledShape, detachPlaceholders, shapeOf } from './shapes.js';
 
 /** vega and vega-lite take a quarter of a second to load: only a chart not in the cache needs them. */
@@ -67,6 +68,8 @@ async function vegaSvgInFull(spec: TopLevelSpec): Promise<string> {
  * sessions; bounded so that an archive of all-different charts does not grow memory.
  */
 const compiled = new Map<string, Promise<CompiledShape | null>>();
+/** Vega's expression functions, made once per program (codegen.ts). */
+let codegen: ReturnType<typeof sharedCodegen> | null = null;
 const MAX_SHAPES = 256;
 
 /** What the renders of this program cost: shapes compiled, charts drawn from a shape, charts drawn in full. */
@@ -115,7 +118,8 @@ async function vegaSvgByShape(spec: TopLevelSpec): Promise<string | null> {
   const ready = await entry;
   if (ready === null) return null;
   const [vega] = await loadChartLibraries();
-  const view = new vega.View(ready.runtime, { renderer: 'none' });
+  codegen ??= sharedCodegen(vega);
+  const view = new vega.View(ready.runtime, { renderer: 'none', expr: codegen });
   try {
     // Fresh rows: Vega marks the objects it ingests, and the caller's spec stays as it was.
     for (const [name, slot] of ready.sources) view.data(name, (values[slot] as unknown[]).map(ownCopy));
