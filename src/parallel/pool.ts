@@ -13,23 +13,25 @@ import type { ResultMessage, TaskMessage, WorkerInit } from './protocol.js';
 import type { SessionUnit } from './unit.js';
 
 /**
- * Below this many sessions to process, starting a worker costs more than it saves. Measured on
- * 2 cores (docs/archive.md): a worker takes about 1 s of CPU to load its modules and warm up,
- * a session 20–40 ms on average.
+ * Below this many sessions to process, starting a worker costs more than it saves (measured
+ * on 2 cores before charts shared their shapes: 30 sessions were faster serially).
  */
-export const SERIAL_BELOW = 60;
+export const SERIAL_BELOW = 40;
 /** Each thread holds a catalog copy and a chart renderer; past this, memory outgrows the gain. */
 const MAX_THREADS = 8;
 /** Tasks a worker holds at once: the next is there when it finishes one. */
 const QUEUED_PER_WORKER = 2;
 
 /**
- * `--jobs auto`: the number of threads that compute sessions, this one included: serial for a
- * handful of sessions or a single core, else one per core.
+ * `--jobs auto`: the number of threads that compute sessions, this one included. One core is
+ * left to V8's own threads: a serial build already keeps a second core about half busy with
+ * optimising compilation and garbage collection (measured per thread on 2 cores, see
+ * docs/archive.md), and each worker repeats its start-up and warm-up. So on 1 or 2 cores, and
+ * for a handful of sessions, the build stays serial; on more, one thread per core but one.
  */
 export function autoJobs(tasks: number, cores: number = availableParallelism()): number {
-  if (tasks < SERIAL_BELOW || cores < 2) return 1;
-  return Math.max(1, Math.min(tasks, MAX_THREADS, cores));
+  if (tasks < SERIAL_BELOW || cores < 3) return 1;
+  return Math.max(1, Math.min(tasks, MAX_THREADS, cores - 1));
 }
 
 function startWorker(init: WorkerInit): Worker {
