@@ -2,7 +2,9 @@
  * Vega-Lite spec → inline SVG at build time (vega-lite compiles, vega renders headless with
  * its SVG string renderer), so pages need no script. Element ids are rewritten with a prefix
  * derived from the spec's hash: several charts share one page and ids must stay unique, and
- * the same spec must always give the same bytes.
+ * the same spec must always give the same bytes. Charts of one shape share one compile and
+ * parse (shapes.ts) and Vega's generated functions (codegen.ts); the SVG is the same as a
+ * compile of each chart alone.
  */
 import { createHash } from 'node:crypto';
 import type { TopLevelSpec } from 'vega-lite';
