@@ -15,6 +15,7 @@ import { makeArchive } from '../scripts/make-archive.js';
 import { readTemplateTexts } from '../src/build.js';
 import { loadCatalogFor, loadConfig } from '../src/commands/common.js';
 import { processSession } from '../src/parallel/unit.js';
+import * as codegen from '../src/report/charts/codegen.js';
 import { chartRenderStats, renderChart, renderChartInFull } from '../src/report/charts/render.js';
 import { shapeOf } from '../src/report/charts/shapes.js';
 import { overviewChart } from '../src/report/charts/specs.js';
@@ -81,6 +82,15 @@ describe('charts from shared shapes', () => {
       kinds.set(kindOf(s), (kinds.get(kindOf(s)) ?? 0) + 1);
       expect(svg, s.description).toBe(await renderChartInFull(s));
     }
+    // A chart of a known shape with other rows makes no new Vega function: they are shared.
+    const known = asked.find(({ spec }) => kindOf(spec as TopLevelSpec) === 'score')?.spec as TopLevelSpec;
+    const functions = codegen.sharedFunctionCount;
+    expect(functions).toBeGreaterThan(0);
+    const other = structuredClone(known) as { data: { values: { score: number }[] } };
+    for (const row of other.data.values) row.score += 0.25;
+    const again = other as unknown as TopLevelSpec;
+    expect((await renderChart(again)).svg).toBe(await renderChartInFull(again));
+    expect(codegen.sharedFunctionCount).toBe(functions);
     // Each kind of session chart is among them.
     for (const k of ['spectrum', 'residual', 'score', 'calibration', 'scan'])
       expect(kinds.get(k) ?? 0, k).toBeGreaterThan(0);

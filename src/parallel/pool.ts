@@ -59,7 +59,8 @@ export async function runPool(
   local: (task: TaskMessage) => Promise<{ unit: SessionUnit; ms: number }>,
 ): Promise<void> {
   if (tasks.length === 0) return;
-  const workerCount = Math.max(1, Math.min(threads - 1, tasks.length - 1));
+  // A single task is done here: a worker would only add its start-up.
+  const workerCount = Math.max(0, Math.min(threads - 1, tasks.length - 1));
   const workers = Array.from({ length: workerCount }, () => startWorker(init));
   let next = 0;
   let finished = 0;

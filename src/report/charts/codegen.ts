@@ -36,6 +36,9 @@ const MAX_FUNCTIONS = 50_000;
 /** A fresh function object calling `f` with `self` as `this`: Vega may set properties on it. */
 const fresh = (f: Fn, self: object | undefined): Fn => f.bind(self);
 
+/** How many functions the shared generators hold (for tests: a known shape adds none). */
+export let sharedFunctionCount = 0;
+
 export function sharedCodegen(vega: typeof VegaModule): Codegen {
   // Vega's default generator, as a context made without one holds it.
   const { runtimeContext } = vega as unknown as {
@@ -51,6 +54,7 @@ export function sharedCodegen(vega: typeof VegaModule): Codegen {
       if (made.size >= MAX_FUNCTIONS) made.clear();
       f = make();
       made.set(key, f);
+      sharedFunctionCount = made.size;
     }
     return f;
   };
