@@ -60,13 +60,17 @@ export function sharedCodegen(vega: typeof VegaModule): Codegen {
   };
   // The generators read only the spec's code (and an encoder's mark type and channel names),
   // so its JSON names the function; made without a context, it comes back unbound.
-  const kind =
-    (name: 'operator' | 'parameter' | 'event' | 'handler' | 'encode'): Gen =>
-    (ctx, spec) =>
-      fresh(
-        once(`${name}:${JSON.stringify(spec)}`, () => base[name](null, spec)),
-        ctx?.functions,
-      );
+  // A shape's parsed runtime is kept and never changed, so the Views built from it pass the
+  // same spec objects again: those are looked up by identity before any JSON is made.
+  const kind = (name: 'operator' | 'parameter' | 'event' | 'handler' | 'encode'): Gen => {
+    const seen = new WeakMap<object, Fn>();
+    return (ctx, spec) => {
+      const known = typeof spec === 'object' && spec !== null ? seen.get(spec) : undefined;
+      const shared = known ?? once(`${name}:${JSON.stringify(spec)}`, () => base[name](null, spec));
+      if (known === undefined && typeof spec === 'object' && spec !== null) seen.set(spec, shared);
+      return fresh(shared, ctx?.functions);
+    };
+  };
   return {
     operator: kind('operator'),
     parameter: kind('parameter'),
