@@ -21,9 +21,10 @@ import { contextKey, sessionKey } from './cache/key.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
 import { type Diagnostic, escapeControls } from './diagnostics.js';
 import type { Catalog } from './lines/types.js';
+import { NotingCache } from './parallel/noting.js';
 import { autoJobs, runPool } from './parallel/pool.js';
 import type { TaskMessage } from './parallel/protocol.js';
-import { NotingCache, processSession, type SessionUnit } from './parallel/unit.js';
+import type { SessionUnit } from './parallel/unit.js';
 import type { SessionEvent } from './progress/reporter.js';
 import {
   failedRow,
@@ -435,7 +436,12 @@ export async function buildSite(
   let t3 = t1;
   try {
     place();
+    // The pipeline is loaded only when some session must be computed: a rebuild with every
+    // session in the cache never needs it.
+    const { processSession } =
+      todo.length > 0 ? await import('./parallel/unit.js') : { processSession: null };
     const here = async (t: TaskMessage) => {
+      if (processSession === null) throw new Error('no session to compute');
       const t0 = performance.now();
       const unit = await processSession(t.path, t.bytes, { render: ctx, instrumentDefaults }, charts);
       return { unit, ms: performance.now() - t0 };
