@@ -24,7 +24,7 @@ const QUEUED_PER_WORKER = 2;
 
 /**
  * `--jobs auto`: the number of threads that compute sessions, this one included. One core is
- * left to V8's own threads: a serial build already keeps a second core about half busy with
+ * left to V8's own threads: a serial build already keeps a second core over a third busy with
  * optimising compilation and garbage collection (measured per thread on 2 cores, see
  * docs/archive.md), and each worker repeats its start-up and warm-up. So on 1 or 2 cores, and
  * for a handful of sessions, the build stays serial; on more, one thread per core but one.
