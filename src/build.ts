@@ -21,9 +21,10 @@ import { contextKey, sessionKey } from './cache/key.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
 import { type Diagnostic, escapeControls } from './diagnostics.js';
 import type { Catalog } from './lines/types.js';
+import { NotingCache } from './parallel/noting.js';
 import { autoJobs, runPool } from './parallel/pool.js';
 import type { TaskMessage } from './parallel/protocol.js';
-import { NotingCache, processSession, type SessionUnit } from './parallel/unit.js';
+import type { SessionUnit } from './parallel/unit.js';
 import type { SessionEvent } from './progress/reporter.js';
 import {
   failedRow,
@@ -49,7 +50,10 @@ export interface BuildOptions {
   programVersion: string;
   /** SOURCE_DATE_EPOCH, when the environment sets it. */
   sourceDateEpoch: string | undefined;
-  /** Worker threads; 1 builds in this thread; 'auto' (default) decides by archive size. */
+  /**
+   * Threads computing sessions, this one included (N − 1 workers); 1 builds in this thread alone;
+   * 'auto' (default) decides by archive size and cores.
+   */
   jobs?: number | 'auto';
   /** The cache folder; null builds everything afresh and keeps no cache. */
   cacheDir?: string | null;
@@ -83,10 +87,23 @@ export interface BuildReport {
   /** Sessions taken from the cache / computed in this build. */
   cached: number;
   computed: number;
-  /** Worker threads used (1: serial; 0: nothing computed). */
+  /** Threads that computed sessions, this one included (1: serial; 0: nothing computed). */
   jobs: number;
   /** The site already was the build's output, so it was left as it was (no swap). */
   unchanged: boolean;
+  /** Where the build's time went (ms): what `--verbose` prints and the bench reads. */
+  timings: BuildTimings;
+}
+
+export interface BuildTimings {
+  /** Listing and reading the sessions, keys, the cache lookup, opening the staging folder. */
+  prepare_ms: number;
+  /** Computing the sessions that were not in the cache (and placing all of them). */
+  sessions_ms: number;
+  /** Rendering and writing the index. */
+  index_ms: number;
+  /** The swap, the manifest and pruning the cache. */
+  finish_ms: number;
 }
 
 export function templatesDir(): string {
@@ -292,6 +309,7 @@ export async function buildSite(
   catalog: Catalog,
   templateTexts: TemplateTexts = readTemplateTexts(),
 ): Promise<BuildReport> {
+  const t0 = performance.now();
   const cacheDir = options.cacheDir === undefined ? defaultCacheDir(options.outDir) : options.cacheDir;
   // Before anything is read or written: the site and cache folders must be ours to replace.
   checkBuildTargets({
@@ -413,13 +431,25 @@ export async function buildSite(
   const jobs = options.jobs === undefined || options.jobs === 'auto' ? autoJobs(todo.length) : options.jobs;
 
   let swapped = false;
+  const t1 = performance.now();
+  let t2 = t1;
+  let t3 = t1;
   try {
     place();
+    // The pipeline is loaded only when some session must be computed: a rebuild with every
+    // session in the cache never needs it.
+    const { processSession } =
+      todo.length > 0 ? await import('./parallel/unit.js') : { processSession: null };
+    const here = async (t: TaskMessage) => {
+      if (processSession === null) throw new Error('no session to compute');
+      const t0 = performance.now();
+      const unit = await processSession(t.path, t.bytes, { render: ctx, instrumentDefaults }, charts);
+      return { unit, ms: performance.now() - t0 };
+    };
     if (jobs <= 1) {
       for (const t of todo) {
-        const t0 = performance.now();
-        const unit = await processSession(t.path, t.bytes, { render: ctx, instrumentDefaults }, charts);
-        computed(t.index, unit, performance.now() - t0);
+        const { unit, ms } = await here(t);
+        computed(t.index, unit, ms);
       }
     } else {
       const { templates: _compiled, catalog: _catalog, ...render } = ctx;
@@ -434,11 +464,14 @@ export async function buildSite(
           chartDir: store ? store.chartDir : null,
         },
         computed,
+        here,
       );
     }
+    t2 = performance.now();
     const indexCharts = new NotingCache(charts);
     staging.write(await renderIndexFiles(rows, overview, ctx, indexCharts));
     for (const h of indexCharts.asked) usedCharts.add(h);
+    t3 = performance.now();
     swapped = staging.commit();
   } catch (e) {
     staging.abort();
@@ -454,5 +487,11 @@ export async function buildSite(
     computed: computedCount,
     jobs: computedCount === 0 ? 0 : jobs,
     unchanged: !swapped,
+    timings: {
+      prepare_ms: t1 - t0,
+      sessions_ms: t2 - t1,
+      index_ms: t3 - t2,
+      finish_ms: performance.now() - t3,
+    },
   };
 }

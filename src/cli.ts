@@ -5,15 +5,33 @@
  * Exit codes: 0 all good, 1 some input had problems, 2 could not run.
  */
 import { Command, CommanderError } from 'commander';
-import { registerBuild } from './commands/build.js';
 import { CommandFailure, EXIT_CANNOT_RUN, EXIT_OK } from './commands/common.js';
-import { registerIdentify } from './commands/identify.js';
-import { registerImportNist } from './commands/importNist.js';
-import { registerLookup } from './commands/lookup.js';
-import { registerPreview } from './commands/preview.js';
-import { registerScaffold } from './commands/scaffold.js';
-import { registerVet } from './commands/vet.js';
 import { PROGRAM_VERSION } from './version.js';
+
+type Register = (program: Command, done: (code: number) => void) => void;
+
+/**
+ * Each command's module, loaded only when that command runs: a no-change rebuild is mostly
+ * program start, and the identification pipeline (which `identify` and `vet` load) is not
+ * needed for it. In the order `--help` lists them.
+ */
+const COMMANDS: readonly [string, () => Promise<Register>][] = [
+  ['identify', async () => (await import('./commands/identify.js')).registerIdentify],
+  ['build', async () => (await import('./commands/build.js')).registerBuild],
+  ['lookup', async () => (await import('./commands/lookup.js')).registerLookup],
+  ['import-nist', async () => (await import('./commands/importNist.js')).registerImportNist],
+  ['preview', async () => (await import('./commands/preview.js')).registerPreview],
+  ['vet', async () => (await import('./commands/vet.js')).registerVet],
+  ['new', async () => (await import('./commands/scaffold.js')).registerScaffold],
+];
+
+/** The command named on the command line, or all of them (help, a mistyped name, none). */
+async function commandsFor(argv: readonly string[]): Promise<Register[]> {
+  const named = argv.slice(2).find((a) => !a.startsWith('-'));
+  if (named === undefined && argv.some((a) => a === '--version' || a === '-V')) return [];
+  const one = COMMANDS.find(([name]) => name === named);
+  return Promise.all((one ? [one] : COMMANDS).map(([, load]) => load()));
+}
 
 export async function main(argv: string[]): Promise<number> {
   const program = new Command();
@@ -27,16 +45,7 @@ export async function main(argv: string[]): Promise<number> {
     .version(PROGRAM_VERSION)
     .exitOverride()
     .configureOutput({ writeErr: (s) => process.stderr.write(s) });
-  for (const register of [
-    registerIdentify,
-    registerBuild,
-    registerLookup,
-    registerImportNist,
-    registerPreview,
-    registerVet,
-    registerScaffold,
-  ])
-    register(program, done);
+  for (const register of await commandsFor(argv)) register(program, done);
   try {
     await program.parseAsync(argv);
   } catch (e) {

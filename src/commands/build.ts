@@ -35,7 +35,7 @@ interface BuildFlags {
 function parseJobs(text: string | undefined): number | 'auto' {
   if (text === undefined || text === 'auto') return 'auto';
   if (!/^\d+$/.test(text) || Number(text) < 1 || Number(text) > 64)
-    throw new CommandFailure(`--jobs takes a number of workers from 1 to 64, or auto (got "${text}")`);
+    throw new CommandFailure(`--jobs takes a number of threads from 1 to 64, or auto (got "${text}")`);
   return Number(text);
 }
 
@@ -99,11 +99,18 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
   const built = report.sessions.length - report.failed;
   if (!opts.quiet || report.failed > 0) {
     const detail = opts.verbose
-      ? ` (${report.cached} from the cache, ${report.computed} computed${report.jobs > 1 ? ` by ${report.jobs} workers` : ''}, ${Math.round(performance.now() - started)} ms)`
+      ? ` (${report.cached} from the cache, ${report.computed} computed${report.jobs > 1 ? ` on ${report.jobs} threads` : ''}, ${Math.round(performance.now() - started)} ms)`
       : '';
     process.stderr.write(
       `lineledger: built ${built} of ${report.sessions.length} sessions into ${out}${report.failed ? `; ${report.failed} failed` : ''}${detail}\n`,
     );
+    if (opts.verbose) {
+      const t = report.timings;
+      const ms = (x: number) => `${Math.round(x)} ms`;
+      process.stderr.write(
+        `lineledger: time: reading and cache lookup ${ms(t.prepare_ms)}, sessions ${ms(t.sessions_ms)}, index ${ms(t.index_ms)}, swap and cache upkeep ${ms(t.finish_ms)}\n`,
+      );
+    }
   }
   if (opts.pdf) {
     const pdfCode = await writePdfs(
@@ -245,7 +252,11 @@ export function registerBuild(program: Command, done: (code: number) => void): v
     .option('--config <file>', 'project config (default: ./lineledger.yaml when present)')
     .option('-q, --quiet', 'print only problems')
     .option('-v, --verbose', 'print a line per session with its status and time')
-    .option('-j, --jobs <n>', 'worker threads: a number, or auto (serial for small archives)', 'auto')
+    .option(
+      '-j, --jobs <n>',
+      'threads computing sessions, this one included: a number, or auto (serial for small archives or one core)',
+      'auto',
+    )
     .option('--no-cache', 'rebuild every session and keep no cache')
     .option('--cache-dir <dir>', 'cache folder (default: .lineledger-cache/<out name> beside the output)')
     .option('--fsync', 'flush every file to disk before the swap, so the site also survives a power cut')

@@ -1,7 +1,11 @@
 /**
- * A pool of worker threads for the sessions of a build. Each worker gets one task at a time;
- * results come back in completion order with the task's index. Run from the TypeScript source
- * (tests, the bench), a worker registers tsx first, since a worker does not inherit the loader.
+ * The sessions of a build shared between this thread and worker threads. Each worker has a
+ * few tasks queued so it never waits for this thread, which computes sessions too between
+ * handling results: on two cores that is one worker, not two, so one worker start-up (modules,
+ * the chart libraries, a warm-up) is paid instead of two, and no core is left to a thread that
+ * only writes. Results come back in completion order with the task's index. Run from the
+ * TypeScript source (tests, the bench), a worker registers tsx first, since a worker does not
+ * inherit the loader.
  */
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
@@ -9,18 +13,25 @@ import type { ResultMessage, TaskMessage, WorkerInit } from './protocol.js';
 import type { SessionUnit } from './unit.js';
 
 /**
- * Below this many sessions to process, starting workers costs more than it saves. Measured on
- * 2 cores: a worker takes about a second to load its modules, receive the catalog and warm up,
- * a session 50–100 ms; 30 sessions were still faster serially (2.2 s against 3.7 s).
+ * Below this many sessions to process, starting a worker costs more than it saves (measured
+ * on 2 cores before charts shared their shapes: 30 sessions were faster serially).
  */
 export const SERIAL_BELOW = 40;
-/** Each worker holds a catalog copy and a chart renderer; past this, memory outgrows the gain. */
-const MAX_WORKERS = 8;
+/** Each thread holds a catalog copy and a chart renderer; past this, memory outgrows the gain. */
+const MAX_THREADS = 8;
+/** Tasks a worker holds at once: the next is there when it finishes one. */
+const QUEUED_PER_WORKER = 2;
 
-/** `--jobs auto`: serial for a handful of sessions, else one worker per spare core (at least 2). */
-export function autoJobs(tasks: number): number {
-  if (tasks < SERIAL_BELOW) return 1;
-  return Math.max(1, Math.min(tasks, MAX_WORKERS, Math.max(2, availableParallelism() - 1)));
+/**
+ * `--jobs auto`: the number of threads that compute sessions, this one included. One core is
+ * left to V8's own threads: a serial build already keeps a second core over a third busy with
+ * optimising compilation and garbage collection (measured per thread on 2 cores, see
+ * docs/archive.md), and each worker repeats its start-up and warm-up. So on 1 or 2 cores, and
+ * for a handful of sessions, the build stays serial; on more, one thread per core but one.
+ */
+export function autoJobs(tasks: number, cores: number = availableParallelism()): number {
+  if (tasks < SERIAL_BELOW || cores < 3) return 1;
+  return Math.max(1, Math.min(tasks, MAX_THREADS, cores - 1));
 }
 
 function startWorker(init: WorkerInit): Worker {
@@ -33,43 +44,77 @@ function startWorker(init: WorkerInit): Worker {
   return new Worker(new URL('./worker.js', own), { workerData: init });
 }
 
+/** Lets waiting worker messages be handled between two sessions computed here. */
+const turn = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+/**
+ * Runs `tasks` on `threads` threads: this one (through `local`) and `threads - 1` workers.
+ * `onResult` is called in this thread for each, in completion order.
+ */
 export async function runPool(
   tasks: readonly TaskMessage[],
-  size: number,
+  threads: number,
   init: WorkerInit,
   onResult: (index: number, unit: SessionUnit, ms: number) => void,
+  local: (task: TaskMessage) => Promise<{ unit: SessionUnit; ms: number }>,
 ): Promise<void> {
   if (tasks.length === 0) return;
-  const workers = Array.from({ length: Math.min(size, tasks.length) }, () => startWorker(init));
+  // A single task is done here: a worker would only add its start-up.
+  const workerCount = Math.max(0, Math.min(threads - 1, tasks.length - 1));
+  const workers = Array.from({ length: workerCount }, () => startWorker(init));
   let next = 0;
   let finished = 0;
+  let failed = false;
   try {
     await new Promise<void>((resolveAll, reject) => {
-      const feed = (w: Worker) => {
-        const task = tasks[next++];
-        if (task) w.postMessage(task);
+      const fail = (e: unknown) => {
+        failed = true;
+        reject(e);
+      };
+      const done = () => {
+        if (++finished === tasks.length) resolveAll();
       };
       for (const w of workers) {
+        let held = 0;
+        const feed = () => {
+          while (!failed && held < QUEUED_PER_WORKER && next < tasks.length) {
+            w.postMessage(tasks[next++]);
+            held++;
+          }
+        };
         w.on('message', (m: ResultMessage) => {
+          held--;
           if (!m.ok) {
-            reject(new Error(`a build worker failed on ${tasks[m.index]?.path ?? '?'}: ${m.error}`));
+            fail(new Error(`a build worker failed on ${tasks[m.index]?.path ?? '?'}: ${m.error}`));
             return;
           }
           try {
             onResult(m.index, m.unit, m.ms);
           } catch (e) {
-            reject(e);
+            fail(e);
             return;
           }
-          if (++finished === tasks.length) resolveAll();
-          else feed(w);
+          feed();
+          done();
         });
-        w.on('error', reject);
+        w.on('error', fail);
         w.on('exit', (code) => {
-          if (finished < tasks.length) reject(new Error(`a build worker stopped (exit code ${code})`));
+          if (finished < tasks.length) fail(new Error(`a build worker stopped (exit code ${code})`));
         });
-        feed(w);
+        feed();
       }
+      // This thread takes the next task whenever it is free; the workers' queues are topped up
+      // from its turns.
+      (async () => {
+        while (!failed && next < tasks.length) {
+          const task = tasks[next++] as TaskMessage;
+          const { unit, ms } = await local(task);
+          if (failed) return;
+          onResult(task.index, unit, ms);
+          done();
+          await turn();
+        }
+      })().catch(fail);
     });
   } finally {
     await Promise.all(workers.map((w) => w.terminate()));

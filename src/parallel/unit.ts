@@ -14,6 +14,7 @@ import {
   type SessionPart,
 } from '../report/site.js';
 import type { InstrumentSpec } from '../session/types.js';
+import { NotingCache } from './noting.js';
 
 export interface SessionUnit {
   /** The file's base name; diagnostics carry it too (the build puts the full path back). */
@@ -34,22 +35,7 @@ export interface UnitContext {
   instrumentDefaults: InstrumentSpec | null;
 }
 
-/** A chart cache that also notes which charts were asked for. */
-export class NotingCache extends Map<string, string> {
-  readonly asked = new Set<string>();
-  constructor(private readonly inner: ChartCache) {
-    super();
-  }
-  override get(key: string): string | undefined {
-    this.asked.add(key);
-    return this.inner.get(key);
-  }
-  override set(key: string, value: string): this {
-    this.asked.add(key);
-    this.inner.set(key, value);
-    return this;
-  }
-}
+export { NotingCache } from './noting.js';
 
 const baseName = (file: string) => file.replace(/^.*[\\/]/, '');
 

@@ -1,4 +1,7 @@
-/** A build worker: loads the catalog and templates once, then turns session files into units. */
+/**
+ * A build worker: loads the catalog and templates once, then turns session files into units,
+ * one at a time in the order they were sent (the pool keeps a few queued).
+ */
 import { parentPort, workerData } from 'node:worker_threads';
 import { ChartStore } from '../cache/store.js';
 import { compileTemplates } from '../report/templates.js';
@@ -12,21 +15,17 @@ const ctx: UnitContext = {
 };
 const charts = new ChartStore(init.chartDir);
 
-parentPort?.on('message', (task: TaskMessage) => {
+async function run(task: TaskMessage): Promise<ResultMessage> {
   const t0 = performance.now();
-  processSession(task.path, task.bytes, ctx, charts).then(
-    (unit) =>
-      parentPort?.postMessage({
-        index: task.index,
-        ok: true,
-        unit,
-        ms: performance.now() - t0,
-      } satisfies ResultMessage),
-    (e: unknown) =>
-      parentPort?.postMessage({
-        index: task.index,
-        ok: false,
-        error: (e as Error).stack ?? String(e),
-      } satisfies ResultMessage),
-  );
+  try {
+    const unit = await processSession(task.path, task.bytes, ctx, charts);
+    return { index: task.index, ok: true, unit, ms: performance.now() - t0 };
+  } catch (e) {
+    return { index: task.index, ok: false, error: (e as Error).stack ?? String(e) };
+  }
+}
+
+let queue: Promise<void> = Promise.resolve();
+parentPort?.on('message', (task: TaskMessage) => {
+  queue = queue.then(async () => parentPort?.postMessage(await run(task)));
 });

@@ -11,7 +11,7 @@ if (!loaded.ok) throw new Error('the bundled catalog does not load');
 const catalog = loaded.value;
 
 describe('parallel build', () => {
-  it('gives the same site with 2 workers as serially, failures and duplicate ids included', async () => {
+  it('gives the same site on 2 and 3 threads as serially, failures and duplicate ids included', async () => {
     const { dir } = archive(8);
     const { writeFileSync } = await import('node:fs');
     writeFileSync(join(dir, '0100-broken.yaml'), 'lineledger: 1\nlines:\n  - { wavelength: 500\n');
@@ -40,10 +40,20 @@ describe('parallel build', () => {
     const a = snapshot(join(root, 'serial'));
     expect(a.size).toBe(1 + 1 + 8 * 4);
     expect(snapshot(join(root, 'parallel'))).toEqual(a);
+    // This thread and two workers, each holding queued sessions.
+    const three = await buildSite(optionsFor(dir, join(root, 'three'), { cacheDir: null, jobs: 3 }), catalog);
+    expect(three.jobs).toBe(3);
+    expect(three.sessions.map((s) => [s.file, s.status])).toEqual(
+      serial.sessions.map((s) => [s.file, s.status]),
+    );
+    expect(snapshot(join(root, 'three'))).toEqual(a);
   });
 
-  it('stays serial for a handful of sessions', () => {
-    expect(autoJobs(SERIAL_BELOW - 1)).toBe(1);
-    expect(autoJobs(500)).toBeGreaterThanOrEqual(2);
+  it('stays serial for a handful of sessions and on one or two cores, else one thread per core but one', () => {
+    expect(autoJobs(SERIAL_BELOW - 1, 4)).toBe(1);
+    expect(autoJobs(500, 1)).toBe(1);
+    expect(autoJobs(500, 2)).toBe(1);
+    expect(autoJobs(500, 3)).toBe(2);
+    expect(autoJobs(500, 8)).toBe(7);
   });
 });
