@@ -14,7 +14,7 @@ const charts = new ChartStore(init.chartDir);
 
 parentPort?.on('message', (task: TaskMessage) => {
   const t0 = performance.now();
-  processSession(task.path, task.bytes, ctx, charts).then(
+  processSession(task.path, task.bytes, ctx, charts, task.profile).then(
     (unit) =>
       parentPort?.postMessage({
         index: task.index,

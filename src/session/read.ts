@@ -6,6 +6,8 @@
 import type { Diagnostic, Outcome, SourcePosition } from '../diagnostics.js';
 import { isReservedId, SESSION_LIMITS, type SessionLimits } from './limits.js';
 import { normalizeSession, sessionIdFromFileName } from './normalize.js';
+import { attachProfile } from './profile/attach.js';
+import type { ProfileInput } from './profile/types.js';
 import type { InstrumentSpec, Session } from './types.js';
 import { validateDocument } from './validate.js';
 import { parseFieldName, parseYamlSource, type YamlSource } from './yamlSource.js';
@@ -19,6 +21,8 @@ export interface ReadOptions {
   limits?: Partial<ReadLimits>;
   /** The project's default instrument (lineledger.yaml), used where the session gives none. */
   instrumentDefaults?: InstrumentSpec | null;
+  /** The profile file the session names, as the edge read it (see profileFileOf). */
+  profile?: ProfileInput | null;
 }
 
 /** The default id for a file name: safe as a folder name on every system (`con` → `con-session`). */
@@ -238,6 +242,18 @@ export function readSessionText(
   const normalized = normalizeSession(named, source, file, bytes, options.instrumentDefaults ?? null);
   if (!normalized.session) return { ok: false, diagnostics: normalized.diagnostics };
   const warnings = [...normalized.diagnostics];
+  let session = normalized.session;
+  if (document.profile !== undefined) {
+    const attached = attachProfile(
+      session,
+      { ...document, profile: document.profile },
+      source,
+      options.profile,
+    );
+    if (!attached.session) return { ok: false, diagnostics: attached.diagnostics };
+    session = attached.session;
+    warnings.push(...attached.diagnostics);
+  }
   // A name without a letter or digit an id can hold: the id is made up, so say which.
   if (document.id === undefined && /^session-[0-9a-f]{8}$/.test(named.id ?? ''))
     warnings.unshift({
@@ -250,5 +266,5 @@ export function readSessionText(
       message: `the file name has no letters or digits an id can hold, so this session's id is ${named.id}`,
       hint: `add id: ${named.id} (or one of your own) to keep it`,
     });
-  return { ok: true, value: normalized.session, warnings };
+  return { ok: true, value: session, warnings };
 }
