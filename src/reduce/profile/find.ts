@@ -1,0 +1,328 @@
+/**
+ * Lines found in a profile, pure: continuum and noise from the data (continuum.ts), candidate
+ * positions from the smoothed profile and its second derivative, then a least-squares Gaussian
+ * fit of each group of overlapping candidates (gaussFit.ts) whose covariance gives every centre
+ * its σ. Candidates that the fit cannot tell apart, or whose amplitude is not significant at
+ * the threshold, are merged or dropped and the group is fitted again.
+ *
+ * Smoothing and derivatives use ml-savitzky-golay-generalized (mljs): a maintained
+ * Savitzky–Golay filter that takes uneven x, which is what a calibrated wavelength axis has.
+ * A minimum of the second derivative marks a line even on the shoulder of a brighter one,
+ * which is how blends are split where the data allow (the basis of global spectral
+ * deconvolution, as in mljs' ml-gsd; its own fit returns no covariance, so it is not used).
+ */
+import { sgg } from 'ml-savitzky-golay-generalized';
+import { FWHM_PER_SIGMA } from '../../constants.js';
+import type { ProfileData } from '../../session/profile/types.js';
+import type { LineKind } from '../../session/types.js';
+import { median } from '../fit/robust.js';
+import { estimateContinuum } from './continuum.js';
+import { fitGaussians, type GaussFit } from './gaussFit.js';
+
+export interface FoundLine {
+  /** Centre on the profile's axis (px, or nm) and its 1σ uncertainty. */
+  centre: number;
+  centre_sigma: number;
+  fwhm: number;
+  /** Peak height above the continuum (emission, intensity units) or depth as a fraction of it (absorption). */
+  amplitude: number;
+  amplitude_sigma: number;
+  /** Area relative to the strongest line found (emission) or depth (absorption), 0–1. */
+  relative: number;
+  /** Amplitude over the noise of one point. */
+  snr: number;
+  /** Found by the finder, or asked for in profile.add. */
+  origin: 'found' | 'added';
+}
+
+export interface ProfileFinding {
+  kind: LineKind;
+  lines: FoundLine[];
+  /** Continuum at each profile point (intensity units). */
+  continuum: number[];
+  /** Noise of one point off the lines, in the units the threshold is in. */
+  noise: number;
+  threshold_sigma: number;
+  /** The detection level: above the continuum (emission, intensity units) or below it (absorption, as a fraction). */
+  threshold: number;
+  /** Typical FWHM of the strong lines, axis units, used to size the filters and fit windows. */
+  fwhm_estimate: number;
+  /** Lines removed because profile.drop named them, and drop positions that matched none. */
+  dropped: FoundLine[];
+  unmatched_drops: number[];
+}
+
+export interface FindOptions {
+  kind: LineKind;
+  threshold_sigma: number;
+  /** Axis positions of lines to fit even if not found. */
+  add: readonly number[];
+  /** Axis positions of found lines to leave out. */
+  drop: readonly number[];
+}
+
+/** The most lines fitted together as one blend. */
+const MAX_GROUP = 6;
+
+const odd = (n: number) => (n % 2 === 1 ? n : n + 1);
+
+/**
+ * The FWHM in points of the strongest clear lines, each walked down to half height; maxima
+ * below a tenth of the strongest, or inside a line already measured, are not counted.
+ */
+function typicalFwhmPoints(r: readonly number[], level: number): number {
+  const peaks: number[] = [];
+  for (let i = 1; i < r.length - 1; i++)
+    if (r[i]! > level && r[i]! >= r[i - 1]! && r[i]! > r[i + 1]!) peaks.push(i);
+  peaks.sort((a, b) => r[b]! - r[a]!);
+  const top = peaks.length ? r[peaks[0]!]! : 0;
+  const widths: number[] = [];
+  const seen: [number, number][] = [];
+  for (const i of peaks) {
+    if (widths.length >= 7 || r[i]! < 0.1 * top) break;
+    if (seen.some(([a, b]) => i >= a && i <= b)) continue;
+    const half = r[i]! / 2;
+    let lo = i;
+    while (lo > 0 && r[lo]! > half) lo--;
+    let hi = i;
+    while (hi < r.length - 1 && r[hi]! > half) hi++;
+    seen.push([lo, hi]);
+    // Linear interpolation between the points either side of each half-height crossing.
+    const left = lo + (half - r[lo]!) / (r[lo + 1]! - r[lo]! || 1);
+    const right = hi - (half - r[hi]!) / (r[hi - 1]! - r[hi]! || 1);
+    widths.push(Math.max(1, right - left));
+  }
+  return widths.length ? median(widths) : 3;
+}
+
+function indexOf(x: readonly number[], v: number): number {
+  let lo = 0;
+  let hi = x.length - 1;
+  if (v <= x[0]!) return 0;
+  if (v >= x[hi]!) return hi;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (x[mid]! <= v) lo = mid;
+    else hi = mid;
+  }
+  return lo + (v - x[lo]!) / (x[hi]! - x[lo]!);
+}
+
+interface Candidate {
+  index: number;
+  added: boolean;
+}
+
+export function findLines(data: ProfileData, options: FindOptions): ProfileFinding {
+  const { x, intensity: y } = data;
+  const n = x.length;
+  const sign = options.kind === 'emission' ? 1 : -1;
+  // A wide window first, to see the lines; then one of ~12 line widths (common practice).
+  const first = estimateContinuum(y, sign, odd(Math.max(31, Math.floor(n / 16))));
+  const r0 = y.map((v, i) => sign * (v - first.level[i]!));
+  const fwhmPts0 = Math.min(typicalFwhmPoints(r0, 10 * first.noise), Math.max(3, n / 20));
+  const cont = estimateContinuum(
+    y,
+    sign,
+    odd(Math.min(Math.max(31, Math.round(12 * fwhmPts0)), Math.max(31, Math.floor(n / 4)))),
+  );
+  const c = cont.level;
+  // Absorption is measured as a depth below the continuum (the normalised profile 1 − y/c).
+  const absorb = options.kind === 'absorption';
+  const r = y.map((v, i) => (absorb ? (c[i]! - v) / c[i]! : v - c[i]!));
+  const pointSigma = data.sigma ? data.sigma.map((s, i) => (absorb ? s / Math.abs(c[i]!) : s)) : null;
+  const noise = absorb ? cont.noise / Math.abs(median(c)) : cont.noise;
+  const ws = odd(Math.max(5, Math.round(0.7 * fwhmPts0)));
+  const wd = odd(Math.max(5, Math.round(fwhmPts0)));
+  // An evenly spaced axis takes the filter's fast path (one set of coefficients for all points).
+  const dx = (x[n - 1]! - x[0]!) / (n - 1);
+  const even = x.every((v, i) => Math.abs(v - (x[0]! + i * dx)) <= 1e-6 * Math.abs(dx));
+  const xs = even ? dx : (x as number[]);
+  const smooth = sgg(r, xs, { windowSize: ws, polynomial: 2 });
+  const d2 = sgg(r, xs, { windowSize: wd, polynomial: 2, derivative: 2 });
+  // Off the lines a dark frame can be exactly flat (all zero counts): then the noise is
+  // judged on the lines instead, as the scatter about the smoothed profile.
+  const onLines = r.filter((_, i) => cont.masked[i]);
+  const scatter = onLines.length
+    ? 1.4826 * median(r.flatMap((v, i) => (cont.masked[i] ? [Math.abs(v - smooth[i]!)] : [])))
+    : 0;
+  const floor =
+    noise > 0 ? noise : scatter > 0 ? scatter : Math.max(1e-12, Math.max(...r.map(Math.abs)) * 1e-6);
+  const threshold = options.threshold_sigma * floor;
+  /** The noise off the lines (0 on a dark background), which the weights start from. */
+  const background = noise;
+
+  // A curvature minimum counts only when it stands out of the second derivative's own noise
+  // (3σ, common practice): on a bright, noisy line top the derivative has many small ones.
+  const offLine = d2.filter((_, i) => !cont.masked[i]);
+  const d2Noise = 1.4826 * median(Array.from(offLine.length > 8 ? offLine : d2, Math.abs));
+  const candidates: Candidate[] = [];
+  for (let i = 1; i < n - 1; i++) {
+    const curvature = d2[i]! < -3 * d2Noise && d2[i]! <= d2[i - 1]! && d2[i]! < d2[i + 1]!;
+    const maximum = smooth[i]! >= smooth[i - 1]! && smooth[i]! > smooth[i + 1]!;
+    if ((curvature || maximum) && smooth[i]! > threshold) candidates.push({ index: i, added: false });
+  }
+  // Candidates closer than half a line width are one (a maximum and the curvature minimum
+  // beside it, or noise on one line's top).
+  const merged: Candidate[] = [];
+  for (const cand of candidates) {
+    const last = merged.at(-1);
+    if (last && cand.index - last.index <= Math.max(1, 0.5 * fwhmPts0)) {
+      if (smooth[cand.index]! > smooth[last.index]!) last.index = cand.index;
+    } else merged.push({ ...cand });
+  }
+  // An added position the finder found anyway is that line, kept whatever its significance.
+  for (const a of options.add) {
+    const index = Math.round(indexOf(x, a));
+    const same = merged.find((m) => Math.abs(m.index - index) <= fwhmPts0);
+    if (same) same.added = true;
+    else merged.push({ index, added: true });
+  }
+  merged.sort((a, b) => a.index - b.index);
+
+  const weightsOf = (from: number, to: number, model: number[] | null, gain: number): number[] => {
+    const w: number[] = [];
+    for (let i = from; i < to; i++) {
+      if (pointSigma) w.push(1 / pointSigma[i]! ** 2);
+      else {
+        // Without uncertainties: the background noise plus a term that grows with the signal
+        // (Poisson-like), its gain fitted to the residuals of the first fit.
+        if (!model) w.push(1 / (floor * floor));
+        else
+          w.push(
+            1 /
+              Math.max(background * background + gain * Math.max(model[i - from]!, 0), 1e-6 * floor * floor),
+          );
+      }
+    }
+    return w;
+  };
+
+  const lines: FoundLine[] = [];
+  const fwhmPts = fwhmPts0;
+  const fw = fwhmPts;
+  const groups: Candidate[][] = [];
+  for (const cand of merged) {
+    const g = groups.at(-1);
+    // At most MAX_GROUP lines are fitted together: a longer run is fitted in pieces.
+    if (g && g.length < MAX_GROUP && cand.index - g.at(-1)!.index < 2.5 * fw) g.push(cand);
+    else groups.push([cand]);
+  }
+  for (let group of groups) {
+    for (let round = 0; round < 40 && group.length > 0; round++) {
+      const from = Math.max(0, Math.floor(group[0]!.index - 2 * fw - 2));
+      const to = Math.min(n, Math.ceil(group.at(-1)!.index + 2 * fw + 3));
+      if (to - from < 3 * group.length + 2) break;
+      const xs = x.slice(from, to);
+      const ys = r.slice(from, to);
+      const step = (x[to - 1]! - x[from]!) / (to - from - 1);
+      const s0 = (fw * step) / FWHM_PER_SIGMA;
+      const start = {
+        offset: 0,
+        components: group.map((g) => ({
+          amplitude: Math.max(smooth[g.index]!, floor),
+          centre: x[g.index]!,
+          width: s0,
+        })),
+      };
+      const base = {
+        x: xs,
+        y: ys,
+        start,
+        centreRange: [x[from]!, x[to - 1]!] as [number, number],
+        widthRange: [Math.max(0.25 * s0, 0.3 * step), 4 * s0] as [number, number],
+      };
+      let fit: GaussFit | null = fitGaussians({ ...base, weight: weightsOf(from, to, null, 0) });
+      if (fit && !pointSigma) {
+        let num = 0;
+        let den = 0;
+        fit.model.forEach((m, k) => {
+          const sig = Math.max(m - fit!.offset, 0);
+          num += ((ys[k]! - m) ** 2 - background * background) * sig;
+          den += sig * sig;
+        });
+        const gain = den > 0 ? Math.max(0, num / den) : 0;
+        const model = fit.model.map((m) => m - fit!.offset);
+        fit =
+          fitGaussians({
+            ...base,
+            start: { offset: fit.offset, components: fit.components },
+            weight: weightsOf(from, to, model, gain),
+          }) ?? fit;
+      }
+      if (!fit) break;
+      // Without given uncertainties the weights are estimates: scale the covariance by χ²/ν.
+      const scale = pointSigma || fit.dof <= 0 ? 1 : fit.chi2 / fit.dof;
+      const comps = fit.components.map((cmp, k) => ({
+        ...cmp,
+        centre_sigma: Math.sqrt(fit!.covariance[2 + 3 * k]![2 + 3 * k]! * scale),
+        amplitude_sigma: Math.sqrt(fit!.covariance[1 + 3 * k]![1 + 3 * k]! * scale),
+        added: group[k]!.added,
+      }));
+      // Weakest insignificant component, or the fainter of two the fit cannot tell apart.
+      let remove = -1;
+      let worst = Number.POSITIVE_INFINITY;
+      comps.forEach((cmp, k) => {
+        const significance = cmp.amplitude / cmp.amplitude_sigma;
+        if (
+          !cmp.added &&
+          (!(significance >= options.threshold_sigma) || cmp.amplitude < threshold) &&
+          significance < worst
+        ) {
+          worst = significance;
+          remove = k;
+        }
+      });
+      if (remove < 0) {
+        for (let k = 0; k + 1 < comps.length && remove < 0; k++) {
+          const a = comps[k]!;
+          const b = comps[k + 1]!;
+          const apart = Math.abs(a.centre - b.centre);
+          if (apart < 0.5 * FWHM_PER_SIGMA * Math.max(a.width, b.width))
+            remove = a.amplitude < b.amplitude && !a.added ? k : k + 1;
+        }
+      }
+      if (remove >= 0) {
+        group = group.filter((_, k) => k !== remove);
+        continue;
+      }
+      for (const cmp of comps)
+        lines.push({
+          centre: cmp.centre,
+          centre_sigma: cmp.centre_sigma,
+          fwhm: FWHM_PER_SIGMA * cmp.width,
+          amplitude: cmp.amplitude,
+          amplitude_sigma: cmp.amplitude_sigma,
+          relative: cmp.amplitude * cmp.width,
+          snr: cmp.amplitude / floor,
+          origin: cmp.added ? 'added' : 'found',
+        });
+      break;
+    }
+  }
+  lines.sort((a, b) => a.centre - b.centre);
+  const strongest = Math.max(...lines.map((l) => l.relative), 0);
+  for (const l of lines) l.relative = absorb ? l.amplitude : strongest > 0 ? l.relative / strongest : 0;
+
+  const dropped: FoundLine[] = [];
+  const unmatched: number[] = [];
+  for (const d of options.drop) {
+    let best = -1;
+    for (let k = 0; k < lines.length; k++)
+      if (best < 0 || Math.abs(lines[k]!.centre - d) < Math.abs(lines[best]!.centre - d)) best = k;
+    if (best >= 0 && Math.abs(lines[best]!.centre - d) <= lines[best]!.fwhm)
+      dropped.push(...lines.splice(best, 1));
+    else unmatched.push(d);
+  }
+  return {
+    kind: options.kind,
+    lines,
+    continuum: c,
+    noise: floor,
+    threshold_sigma: options.threshold_sigma,
+    threshold,
+    fwhm_estimate: fwhmPts * ((x[n - 1]! - x[0]!) / (n - 1)),
+    dropped,
+    unmatched_drops: unmatched,
+  };
+}
