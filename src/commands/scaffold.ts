@@ -7,9 +7,7 @@ import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { type Command, Option } from 'commander';
 import { safeIdFromFileName } from '../session/read.js';
-import { schemaReference, sessionTemplate } from '../session/scaffold.js';
-import { METHODS } from '../session/schema.js';
-import type { MeasurementMethod } from '../session/types.js';
+import { schemaReference, sessionTemplate, TEMPLATE_KINDS, type TemplateKind } from '../session/scaffold.js';
 import { checkFileTarget } from '../write/guard.js';
 import { CommandFailure, EXIT_OK, EXIT_PROBLEMS } from './common.js';
 
@@ -24,7 +22,7 @@ function localDate(now: Date): string {
   return `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`;
 }
 
-function scaffold(file: string, opts: { method: MeasurementMethod; force?: boolean }): number {
+function scaffold(file: string, opts: { method: TemplateKind; force?: boolean }): number {
   if (!/\.ya?ml$/i.test(file))
     throw new CommandFailure(`${file}: a session file name must end in .yaml (the build reads only those)`);
   const target = resolve(file);
@@ -61,12 +59,13 @@ export function registerScaffold(program: Command, done: (code: number) => void)
     .description('write a new session file to fill in, for one measurement method')
     .argument('<file>', 'the session file to create (ends in .yaml)')
     .addOption(
-      new Option('--method <method>', 'how the line positions are read')
-        .choices(METHODS)
+      new Option(
+        '--method <method>',
+        'how the line positions are read (profile: a recorded profile whose lines are found)',
+      )
+        .choices([...TEMPLATE_KINDS])
         .makeOptionMandatory(),
     )
     .option('--force', 'replace the file if it exists')
-    .action((file: string, opts: { method: MeasurementMethod; force?: boolean }) =>
-      done(scaffold(file, opts)),
-    );
+    .action((file: string, opts: { method: TemplateKind; force?: boolean }) => done(scaffold(file, opts)));
 }
