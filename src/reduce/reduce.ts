@@ -14,7 +14,7 @@ import { reducePixels } from './methods/pixel.js';
 import { reduceScreen } from './methods/screen.js';
 import { reduceWavelengths } from './methods/wavelength.js';
 import type { ProfileFinding } from './profile/find.js';
-import { linesFromProfile } from './profile/lines.js';
+import { aboutFoundLines, linesFromProfile } from './profile/lines.js';
 import { resolveKnownShift } from './shift.js';
 import type { MeasuredLine, MethodResult, Reduction } from './types.js';
 
@@ -57,7 +57,8 @@ export function reduceSession(given: Session): Outcome<Reduction> {
       ],
     };
   }
-  const result = reducer(session);
+  const reduced = reducer(session);
+  const result = profile ? { ...reduced, diagnostics: aboutFoundLines(reduced.diagnostics) } : reduced;
   const errors = result.diagnostics.filter((d) => d.severity === 'error');
   if (errors.length > 0) return { ok: false, diagnostics: result.diagnostics };
   const warnings: Diagnostic[] = [
@@ -109,7 +110,12 @@ export function reduceSession(given: Session): Outcome<Reduction> {
       calibration: result.calibration,
       profile,
       shift,
-      description: result.description,
+      description: profile
+        ? {
+            ...result.description,
+            text: `${result.description.text} The lines were found in the recorded profile ${given.profile?.file ?? ''} (below), not read by eye.`,
+          }
+        : result.description,
       resolution_nm: resolutionNm(session, lines),
       warnings,
     },

@@ -13,28 +13,44 @@ function toAxis(session: Session, v: number): number {
   return session.measurement.method === 'pixel' ? v : v * NM_PER_UNIT[session.measurement.unit];
 }
 
+const round = (v: number, digits: number) => Number(v.toFixed(digits));
+
 function rawLine(session: Session, profile: SessionProfile, l: FoundLine, index: number): RawLine {
   const pixel = session.measurement.method === 'pixel';
   const perUnit = NM_PER_UNIT[session.measurement.unit];
   return {
     index,
     position: profile.position,
-    wavelength: pixel ? null : l.centre / perUnit,
+    // Rounded far below their σ, so the record's readings stay legible.
+    wavelength: pixel ? null : round(l.centre / perUnit, 6),
     angle_deg: null,
     angle_left_deg: null,
     angle_right_deg: null,
     offset_mm: null,
     separation_mm: null,
-    pixel: pixel ? l.centre : null,
+    pixel: pixel ? round(l.centre, 3) : null,
     sigma: pixel ? l.centre_sigma : l.centre_sigma / perUnit,
     order: null,
     same_as: null,
     // Relative area (emission) or depth (absorption) in percent: a number on the 0–∞ scale.
-    intensity: 100 * l.relative,
+    intensity: round(100 * l.relative, 1),
     kind: profile.kind,
     width_nm: pixel ? null : l.fwhm,
     label: l.origin === 'added' ? 'added in profile.add' : null,
   };
+}
+
+/**
+ * A method's diagnostics about `lines[i]` of a profile session are about found line i + 1:
+ * say so (the session has no lines: to point at) and round the long fitted numbers they quote.
+ */
+export function aboutFoundLines(diagnostics: readonly Diagnostic[]): Diagnostic[] {
+  return diagnostics.map((d) => {
+    const m = /^lines\[(\d+)\]/.exec(d.field);
+    if (!m) return d;
+    const message = d.message.replace(/-?\d+\.\d{4,}/g, (v) => Number(v).toFixed(2));
+    return { ...d, field: 'profile', message: `found line ${Number(m[1]) + 1}: ${message}` };
+  });
 }
 
 export interface ProfileLines {
