@@ -108,6 +108,38 @@ function indexOf(x: readonly number[], v: number): number {
   return lo + (v - x[lo]!) / (x[hi]! - x[lo]!);
 }
 
+/**
+ * The strongest stretch of the fit's residual, as an index into the window, when it stands
+ * `k` σ out by the noise model (sum of residuals over its √(sum of variances)) and its mean
+ * reaches the detection threshold; −1 when none does.
+ */
+function residualPeak(
+  y: readonly number[],
+  model: readonly number[],
+  weight: readonly number[],
+  fwhmPoints: number,
+  k: number,
+  threshold: number,
+): number {
+  const half = Math.max(1, Math.round(fwhmPoints / 2));
+  let best = -1;
+  let bestZ = k;
+  for (let i = half; i + half < y.length; i++) {
+    let sum = 0;
+    let variance = 0;
+    for (let j = i - half; j <= i + half; j++) {
+      sum += y[j]! - model[j]!;
+      variance += 1 / weight[j]!;
+    }
+    const z = sum / Math.sqrt(variance);
+    if (z > bestZ && sum / (2 * half + 1) > 0.5 * threshold) {
+      bestZ = z;
+      best = i;
+    }
+  }
+  return best;
+}
+
 interface Candidate {
   index: number;
   added: boolean;
@@ -209,6 +241,8 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
     else groups.push([cand]);
   }
   for (let group of groups) {
+    // Positions the residual search already tried (so a rejected one is not tried again).
+    const tried: number[] = [];
     for (let round = 0; round < 40 && group.length > 0; round++) {
       const from = Math.max(0, Math.floor(group[0]!.index - 2 * fw - 2));
       const to = Math.min(n, Math.ceil(group.at(-1)!.index + 2 * fw + 3));
@@ -232,7 +266,8 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
         centreRange: [x[from]!, x[to - 1]!] as [number, number],
         widthRange: [Math.max(0.25 * s0, 0.3 * step), 4 * s0] as [number, number],
       };
-      let fit: GaussFit | null = fitGaussians({ ...base, weight: weightsOf(from, to, null, 0) });
+      let weight = weightsOf(from, to, null, 0);
+      let fit: GaussFit | null = fitGaussians({ ...base, weight });
       if (fit && !pointSigma) {
         let num = 0;
         let den = 0;
@@ -243,12 +278,16 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
         });
         const gain = den > 0 ? Math.max(0, num / den) : 0;
         const model = fit.model.map((m) => m - fit!.offset);
-        fit =
-          fitGaussians({
-            ...base,
-            start: { offset: fit.offset, components: fit.components },
-            weight: weightsOf(from, to, model, gain),
-          }) ?? fit;
+        const second = weightsOf(from, to, model, gain);
+        const refit = fitGaussians({
+          ...base,
+          start: { offset: fit.offset, components: fit.components },
+          weight: second,
+        });
+        if (refit) {
+          fit = refit;
+          weight = second;
+        }
       }
       if (!fit) break;
       // Without given uncertainties the weights are estimates: scale the covariance by χ²/ν.
@@ -285,6 +324,22 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
       if (remove >= 0) {
         group = group.filter((_, k) => k !== remove);
         continue;
+      }
+      // A faint line on a brighter one's shoulder can hide from the second derivative (the
+      // bright line's curvature is positive there): look for it in what the fit leaves,
+      // each stretch of about a FWHM weighed against the noise model, and fit again with it.
+      const extra =
+        group.length < MAX_GROUP
+          ? residualPeak(ys, fit.model, weight, fw, options.threshold_sigma, threshold)
+          : -1;
+      if (extra >= 0) {
+        const index = from + extra;
+        const near = (i: number) => Math.abs(i - index) < 0.5 * fw;
+        if (!tried.some(near) && !group.some((g) => near(g.index))) {
+          tried.push(index);
+          group = [...group, { index, added: false }].sort((a, b) => a.index - b.index);
+          continue;
+        }
       }
       for (const cmp of comps)
         lines.push({
