@@ -6,7 +6,13 @@
  * neighbouring residuals off the lines: for independent Gaussian noise σ, neighbour differences
  * have σ√2 and MAD = 0.6745·σ√2 (the normal quantile Φ⁻¹(3/4) = 0.6745, common practice).
  */
-import { median } from '../fit/robust.js';
+/** Median by a native numeric sort of a typed copy (several times faster than Array.sort). */
+export function median(values: ArrayLike<number>): number {
+  const n = values.length;
+  if (n === 0) return Number.NaN;
+  const sorted = Float64Array.from(values).sort();
+  return n % 2 ? sorted[n >> 1]! : (sorted[(n >> 1) - 1]! + sorted[n >> 1]!) / 2;
+}
 
 /** 1/Φ⁻¹(3/4): the MAD of a normal variable times this is its σ. */
 const MAD_TO_SIGMA = 1.482_6;

@@ -15,8 +15,7 @@ import { sgg } from 'ml-savitzky-golay-generalized';
 import { FWHM_PER_SIGMA } from '../../constants.js';
 import type { ProfileData } from '../../session/profile/types.js';
 import type { LineKind } from '../../session/types.js';
-import { median } from '../fit/robust.js';
-import { estimateContinuum } from './continuum.js';
+import { estimateContinuum, median } from './continuum.js';
 import { fitGaussians, type GaussFit } from './gaussFit.js';
 
 export interface FoundLine {
@@ -62,7 +61,7 @@ export interface FindOptions {
 }
 
 /** The most lines fitted together as one blend. */
-const MAX_GROUP = 6;
+const MAX_GROUP = 8;
 
 const odd = (n: number) => (n % 2 === 1 ? n : n + 1);
 
@@ -236,16 +235,22 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
   const groups: Candidate[][] = [];
   for (const cand of merged) {
     const g = groups.at(-1);
-    // At most MAX_GROUP lines are fitted together: a longer run is fitted in pieces.
-    if (g && g.length < MAX_GROUP && cand.index - g.at(-1)!.index < 2.5 * fw) g.push(cand);
+    // Lines whose fit windows (±2 FWHM) overlap are fitted together, at most MAX_GROUP at
+    // once: a longer run is fitted in pieces, each window stopping halfway to the next piece.
+    if (g && g.length < MAX_GROUP && cand.index - g.at(-1)!.index < 4 * fw + 5) g.push(cand);
     else groups.push([cand]);
   }
-  for (let group of groups) {
+  const bounds = groups.map((g, k) => [
+    k > 0 ? Math.ceil((groups[k - 1]!.at(-1)!.index + g[0]!.index) / 2) : 0,
+    k + 1 < groups.length ? Math.floor((g.at(-1)!.index + groups[k + 1]![0]!.index) / 2) + 1 : n,
+  ]);
+  for (let [gi, group] of groups.entries()) {
+    const [lowest, highest] = bounds[gi]!;
     // Positions the residual search already tried (so a rejected one is not tried again).
     const tried: number[] = [];
     for (let round = 0; round < 40 && group.length > 0; round++) {
-      const from = Math.max(0, Math.floor(group[0]!.index - 2 * fw - 2));
-      const to = Math.min(n, Math.ceil(group.at(-1)!.index + 2 * fw + 3));
+      const from = Math.max(lowest!, Math.floor(group[0]!.index - 2 * fw - 2));
+      const to = Math.min(highest!, Math.ceil(group.at(-1)!.index + 2 * fw + 3));
       if (to - from < 3 * group.length + 2) break;
       const xs = x.slice(from, to);
       const ys = r.slice(from, to);
@@ -339,6 +344,44 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
           tried.push(index);
           group = [...group, { index, added: false }].sort((a, b) => a.index - b.index);
           continue;
+        }
+      }
+      // A line fitted much wider than the typical one may be two: split it, and keep the two
+      // when χ² falls by more than threshold² (a likelihood-ratio test at the threshold, common
+      // practice) and the next round finds both significant.
+      if (group.length < MAX_GROUP) {
+        const wide = comps
+          .map((c, k) => ({ c, k }))
+          .filter(
+            ({ c }) =>
+              c.width > 1.25 * s0 &&
+              !tried.some((t) => Math.abs(x[Math.round(t)]! - c.centre) < 0.25 * FWHM_PER_SIGMA * s0),
+          )
+          .sort((a, b) => b.c.width - a.c.width)[0];
+        if (wide) {
+          const index = Math.round(indexOf(x, wide.c.centre));
+          tried.push(index);
+          const d = 0.6 * wide.c.width;
+          const pair = [
+            { amplitude: wide.c.amplitude, centre: wide.c.centre - d, width: s0 },
+            { amplitude: wide.c.amplitude, centre: wide.c.centre + d, width: s0 },
+          ];
+          const others = fit.components.filter((_, k) => k !== wide.k);
+          const split = fitGaussians({
+            ...base,
+            start: { offset: fit.offset, components: [...others, ...pair] },
+            weight,
+          });
+          if (split && fit.chi2 - split.chi2 > options.threshold_sigma ** 2) {
+            const [a, b] = split.components.slice(-2).map((c) => Math.round(indexOf(x, c.centre)));
+            if (a !== undefined && b !== undefined && a !== b) {
+              const kept = group.filter((_, k) => k !== wide.k);
+              const pairIndex = [a, b].map((i) => ({ index: i, added: group[wide.k]!.added }));
+              group = [...kept, ...pairIndex].sort((p, q) => p.index - q.index);
+              tried.push(a, b);
+              continue;
+            }
+          }
         }
       }
       for (const cmp of comps)
