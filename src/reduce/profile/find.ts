@@ -60,6 +60,13 @@ export interface FindOptions {
   drop: readonly number[];
 }
 
+/**
+ * A fitted line is kept when its amplitude is this share of the threshold in its own σ: the
+ * amplitude itself must still reach the threshold in noise units, and a blend's amplitudes
+ * are correlated, which widens their σ.
+ */
+const SIGNIFICANCE = 0.7;
+
 /** The most lines fitted together as one blend. */
 const MAX_GROUP = 8;
 
@@ -244,44 +251,65 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
     k > 0 ? Math.ceil((groups[k - 1]!.at(-1)!.index + g[0]!.index) / 2) : 0,
     k + 1 < groups.length ? Math.floor((g.at(-1)!.index + groups[k + 1]![0]!.index) / 2) + 1 : n,
   ]);
-  for (let [gi, group] of groups.entries()) {
-    const [lowest, highest] = bounds[gi]!;
-    // Positions the residual search already tried (so a rejected one is not tried again).
-    const tried: number[] = [];
-    for (let round = 0; round < 40 && group.length > 0; round++) {
-      const from = Math.max(lowest!, Math.floor(group[0]!.index - 2 * fw - 2));
-      const to = Math.min(highest!, Math.ceil(group.at(-1)!.index + 2 * fw + 3));
-      if (to - from < 3 * group.length + 2) break;
-      const xs = x.slice(from, to);
-      const ys = r.slice(from, to);
-      const step = (x[to - 1]! - x[from]!) / (to - from - 1);
-      const s0 = (fw * step) / FWHM_PER_SIGMA;
-      const start = {
+  /** The fit window of a group (clipped to its bounds) and the fit's start, or null when too short. */
+  const windowOf = (group: Candidate[], lowest: number, highest: number) => {
+    const from = Math.max(lowest, Math.floor(group[0]!.index - 2 * fw - 2));
+    const to = Math.min(highest, Math.ceil(group.at(-1)!.index + 2 * fw + 3));
+    if (to - from < 3 * group.length + 2) return null;
+    const ys = r.slice(from, to);
+    const step = (x[to - 1]! - x[from]!) / (to - from - 1);
+    const s0 = (fw * step) / FWHM_PER_SIGMA;
+    const base = {
+      x: x.slice(from, to),
+      y: ys,
+      start: {
         offset: 0,
         components: group.map((g) => ({
           amplitude: Math.max(smooth[g.index]!, floor),
           centre: x[g.index]!,
           width: s0,
         })),
-      };
-      const base = {
-        x: xs,
-        y: ys,
-        start,
-        centreRange: [x[from]!, x[to - 1]!] as [number, number],
-        widthRange: [Math.max(0.25 * s0, 0.3 * step), 4 * s0] as [number, number],
-      };
+      },
+      centreRange: [x[from]!, x[to - 1]!] as [number, number],
+      widthRange: [Math.max(0.25 * s0, 0.3 * step), 4 * s0] as [number, number],
+      // Each point is taken as the mean over its pixel (a bin of the local step).
+      binWidth: step,
+    };
+    return { from, to, ys, s0, base };
+  };
+  // Without given uncertainties, the noise grows with the signal (Poisson-like): one gain for
+  // the whole profile, fitted to the residuals of a first, equally weighted fit of every
+  // group (one profile's worth of residuals; a gain per group would be too noisy).
+  let gain = 0;
+  if (!pointSigma) {
+    let num = 0;
+    let den = 0;
+    for (const [gi, group] of groups.entries()) {
+      const win = windowOf(group, bounds[gi]![0]!, bounds[gi]![1]!);
+      const fit = win ? fitGaussians({ ...win.base, weight: weightsOf(win.from, win.to, null, 0) }) : null;
+      if (!win || !fit) continue;
+      fit.model.forEach((m, k) => {
+        const signal = Math.max(m - fit.offset, 0);
+        num += ((win.ys[k]! - m) ** 2 / (1 - fit.leverage[k]!) - background * background) * signal;
+        den += signal * signal;
+      });
+    }
+    gain = den > 0 ? Math.max(0, num / den) : 0;
+  }
+  let pooledChi2 = 0;
+  let pooledDof = 0;
+  const unscaled: FoundLine[] = [];
+  for (let [gi, group] of groups.entries()) {
+    const [lowest, highest] = bounds[gi]!;
+    // Positions the residual search already tried (so a rejected one is not tried again).
+    const tried: number[] = [];
+    for (let round = 0; round < 40 && group.length > 0; round++) {
+      const win = windowOf(group, lowest!, highest!);
+      if (!win) break;
+      const { from, to, ys, s0, base } = win;
       let weight = weightsOf(from, to, null, 0);
       let fit: GaussFit | null = fitGaussians({ ...base, weight });
       if (fit && !pointSigma) {
-        let num = 0;
-        let den = 0;
-        fit.model.forEach((m, k) => {
-          const sig = Math.max(m - fit!.offset, 0);
-          num += ((ys[k]! - m) ** 2 - background * background) * sig;
-          den += sig * sig;
-        });
-        const gain = den > 0 ? Math.max(0, num / den) : 0;
         const model = fit.model.map((m) => m - fit!.offset);
         const second = weightsOf(from, to, model, gain);
         const refit = fitGaussians({
@@ -295,11 +323,11 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
         }
       }
       if (!fit) break;
-      // Without given uncertainties the weights are estimates: scale the covariance by χ²/ν.
-      const scale = pointSigma || fit.dof <= 0 ? 1 : fit.chi2 / fit.dof;
+      // Decisions take the group's own χ²/ν when it is worse than the noise model says.
+      const scale = pointSigma || fit.dof <= 0 ? 1 : Math.max(1, fit.chi2 / fit.dof);
       const comps = fit.components.map((cmp, k) => ({
         ...cmp,
-        centre_sigma: Math.sqrt(fit!.covariance[2 + 3 * k]![2 + 3 * k]! * scale),
+        centre_sigma: Math.sqrt(fit!.covariance[2 + 3 * k]![2 + 3 * k]!),
         amplitude_sigma: Math.sqrt(fit!.covariance[1 + 3 * k]![1 + 3 * k]! * scale),
         added: group[k]!.added,
       }));
@@ -310,7 +338,7 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
         const significance = cmp.amplitude / cmp.amplitude_sigma;
         if (
           !cmp.added &&
-          (!(significance >= options.threshold_sigma) || cmp.amplitude < threshold) &&
+          (!(significance >= SIGNIFICANCE * options.threshold_sigma) || cmp.amplitude < threshold) &&
           significance < worst
         ) {
           worst = significance;
@@ -384,8 +412,10 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
           }
         }
       }
+      pooledChi2 += fit.chi2;
+      pooledDof += fit.dof;
       for (const cmp of comps)
-        lines.push({
+        unscaled.push({
           centre: cmp.centre,
           centre_sigma: cmp.centre_sigma,
           fwhm: FWHM_PER_SIGMA * cmp.width,
@@ -398,6 +428,11 @@ export function findLines(data: ProfileData, options: FindOptions): ProfileFindi
       break;
     }
   }
+  // The reported σ: the covariance of the noise model, scaled by χ²/ν pooled over all fits
+  // (one scale for the profile, so no line's σ rests on a dozen points' χ² alone).
+  // A χ²/ν below 1 is taken as 1: the fit is not allowed to claim less noise than its model.
+  const pooled = pointSigma || pooledDof <= 0 ? 1 : Math.sqrt(Math.max(1, pooledChi2 / pooledDof));
+  for (const l of unscaled) lines.push({ ...l, centre_sigma: l.centre_sigma * pooled });
   lines.sort((a, b) => a.centre - b.centre);
   const strongest = Math.max(...lines.map((l) => l.relative), 0);
   for (const l of lines) l.relative = absorb ? l.amplitude : strongest > 0 ? l.relative / strongest : 0;
