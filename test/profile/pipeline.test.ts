@@ -67,6 +67,8 @@ describe('a camera profile through the pipeline', () => {
     });
     const r = buildResult(out.reduction, out.identification, catalog, 'test');
     expect(r.explanation.species).toEqual(['Hg I']);
+    expect(r.profile?.lines.length).toBe(5);
+    expect(r.profile?.axis).toBe('pixel');
     expect(r.lines.filter((l) => l.status === 'identified').length).toBeGreaterThanOrEqual(4);
   });
 
