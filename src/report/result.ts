@@ -94,6 +94,8 @@ export interface ResultJson {
   /** The recorded profile the lines were found in, and what the finder did (null: lines were typed). */
   profile: {
     file: string;
+    /** Hex SHA-256 of the profile file, beside input.sha256 of the session. */
+    sha256: string;
     format: string;
     axis: string;
     points: number;
@@ -157,6 +159,7 @@ function profileJson(reduction: Reduction): ResultJson['profile'] {
   });
   return {
     file: spec.file,
+    sha256: spec.sha256,
     format: spec.data.format,
     axis: spec.data.axis,
     points: spec.data.x.length,

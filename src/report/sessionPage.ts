@@ -103,6 +103,7 @@ async function profileBlock(
   const digits = pixel ? 2 : 4;
   return {
     file: spec.file,
+    sha256: spec.sha256,
     description: data.description,
     text: `${finding.lines.length} ${finding.kind} line${finding.lines.length === 1 ? '' : 's'} found; noise of one point ${noise}; a line must stand ${finding.threshold_sigma}σ out (${level}); typical FWHM ${fixed(finding.fwhm_estimate, digits)} ${unit}.${finding.dropped.length ? ` ${finding.dropped.length} left out by profile.drop.` : ''}`,
     chart: chart.svg,

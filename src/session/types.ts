@@ -94,6 +94,8 @@ export interface SessionProfile {
   file: string;
   data: ProfileData;
   kind: LineKind;
+  /** Hex SHA-256 of the profile file's bytes, for provenance. */
+  sha256: string;
   /** Detection threshold in units of the estimated noise. */
   threshold_sigma: number;
   /** Positions in the axis unit of the session (px, or measurement.unit). */

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseFitsProfile } from '../../src/session/profile/fits.js';
 import { FITS_BLOCK_BYTES, parseFitsHeader, parseFitsValue } from '../../src/session/profile/fitsHeader.js';
 import { readProfileBytes } from '../../src/session/profile/read.js';
-import { fitsFile, header, primary } from './fitsWriter.js';
+import { fitsFile, fitsTableFile, header, primary } from './fitsWriter.js';
 
 const ramp = (n: number) => Array.from({ length: n }, (_, i) => i * 3);
 
@@ -182,5 +182,41 @@ describe('FITS spectral axis (Standard 4.0 §8; Greisen et al. 2006, Paper III; 
       ]);
       expect(parseFitsProfile(fitsFile(cards, -64, [1, 2]), 'x.fits').ok).toBe(false);
     }
+  });
+});
+
+describe('FITS binary table spectra (FITS Standard 4.0 §7.3; Greisen et al. 2006; from memory)', () => {
+  const n = 20;
+  const wave = Array.from({ length: n }, (_, i) => 6550 + 0.5 * i);
+  it('one point per row: WAVE (Angstrom, TCTYP AWAV), FLUX and ERR columns', () => {
+    const bytes = fitsTableFile([
+      { name: 'WAVE', type: 'D', unit: 'Angstrom', ctype: 'AWAV', rows: wave.map((w) => [w]) },
+      { name: 'FLUX', type: 'E', rows: wave.map((_, i) => [100 + i]) },
+      { name: 'ERR', type: 'E', rows: wave.map(() => [2]) },
+    ]);
+    const r = readProfileBytes(bytes, 't.fits', { axis: 'wavelength', nmPerUnit: 1 });
+    expect(r.problems).toEqual([]);
+    expect(r.profile?.medium).toBe('air');
+    expect(r.profile?.x[2]).toBeCloseTo(655.1, 9);
+    expect(r.profile?.intensity[3]).toBe(103);
+    expect(r.profile?.sigma?.[0]).toBe(2);
+  });
+  it('one row of vector columns; TSCAL/TZERO scale an integer column (§7.3.2)', () => {
+    const bytes = fitsTableFile([
+      { name: 'WAVELENGTH', type: 'E', unit: 'nm', rows: [wave.map((w) => w / 10)] },
+      { name: 'COUNTS', type: 'I', scale: 0.5, zero: 1000, rows: [wave.map((_, i) => i)] },
+    ]);
+    const r = readProfileBytes(bytes, 't.fits', { axis: 'wavelength', nmPerUnit: 1 });
+    expect(r.problems).toEqual([]);
+    expect(r.profile?.medium).toBeNull();
+    expect(r.profile?.intensity.slice(0, 3)).toEqual([1000, 1000.5, 1001]);
+  });
+  it('a wavelength column without a unit is refused rather than guessed', () => {
+    const bytes = fitsTableFile([
+      { name: 'WAVE', type: 'D', rows: wave.map((w) => [w]) },
+      { name: 'FLUX', type: 'E', rows: wave.map(() => [1]) },
+    ]);
+    const r = readProfileBytes(bytes, 't.fits', { axis: 'wavelength', nmPerUnit: 1 });
+    expect(r.problems[0]?.message).toMatch(/unit/);
   });
 });

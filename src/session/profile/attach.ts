@@ -4,6 +4,7 @@
  * session's `profile.file` field. Pure.
  */
 
+import { createHash } from 'node:crypto';
 import { NM_PER_ANGSTROM, NM_PER_MICROMETRE } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
 import type { ProfileDocument, SessionDocument } from '../schema.js';
@@ -98,6 +99,7 @@ export function attachProfile(
       medium,
       profile: {
         file: spec.file,
+        sha256: createHash('sha256').update(input.bytes).digest('hex'),
         data,
         kind: spec.kind ?? (session.source.kind === 'star' ? 'absorption' : 'emission'),
         threshold_sigma: spec.threshold ?? DEFAULT_PROFILE_THRESHOLD,

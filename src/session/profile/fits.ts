@@ -8,6 +8,7 @@
  * Section numbers are recalled ("from memory").
  */
 import { type FitsValue, parseFitsHeader } from './fitsHeader.js';
+import { parseFitsTable } from './fitsTable.js';
 import type { ProfileParse, ProfileProblem } from './types.js';
 
 /** Units of a wavelength axis CUNIT1 may give (§4.3, Table 26 of the Standard), in nm. */
@@ -39,6 +40,8 @@ export function parseFitsProfile(bytes: Uint8Array, name: string): ProfileParse 
       `${name}: BITPIX ${String(h.get('BITPIX'))} is not one the Standard allows here`,
       'use BITPIX 8, 16, 32, -32 or -64',
     );
+  // No primary array: the spectrum may be in a binary table, the first extension (§7.3).
+  if (naxis === 0) return parseFitsTable(bytes, head.header.dataOffset, name);
   if (naxis === null || naxis < 1)
     return problem(
       `${name} has no primary array (NAXIS = ${String(naxis)})`,

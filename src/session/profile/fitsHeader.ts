@@ -55,26 +55,32 @@ export function parseFitsValue(field: string): FitsValue | undefined {
   return undefined;
 }
 
-/** The primary header: cards until END (§4.4.1), the data starting at the next block boundary. */
-export function parseFitsHeader(bytes: Uint8Array): HeaderParse {
+/**
+ * A header: cards until END (§4.4.1), the data starting at the next block boundary. The
+ * primary header (at 0) starts with SIMPLE = T; an extension's (§7.1, at a block boundary)
+ * with XTENSION.
+ */
+export function parseFitsHeader(bytes: Uint8Array, start = 0): HeaderParse {
   const values = new Map<string, FitsValue>();
-  const cards = Math.floor(bytes.length / FITS_CARD_CHARS);
+  const cards = Math.floor((bytes.length - start) / FITS_CARD_CHARS);
   for (let n = 0; n < cards; n++) {
     let card = '';
-    for (let i = n * FITS_CARD_CHARS; i < (n + 1) * FITS_CARD_CHARS; i++) {
+    for (let i = start + n * FITS_CARD_CHARS; i < start + (n + 1) * FITS_CARD_CHARS; i++) {
       const b = bytes[i]!;
       // §4.1.1: only the printable ASCII characters (hex 20 to 7E) may appear in a header.
       if (b < 0x20 || b > 0x7e)
         return { ok: false, message: `header record ${n + 1} holds a byte that is not printable ASCII` };
       card += String.fromCharCode(b);
     }
-    if (n === 0 && !/^SIMPLE {2}= +T/.test(card))
+    if (n === 0 && start === 0 && !/^SIMPLE {2}= +T/.test(card))
       return { ok: false, message: 'does not start with SIMPLE = T: it is not a FITS file' };
+    if (n === 0 && start > 0 && !card.startsWith('XTENSION= '))
+      return { ok: false, message: 'has no extension header where the primary data end' };
     // §4.1.2.1: the keyword name is columns 1–8, left-justified, padded with spaces.
     const keyword = card.slice(0, 8).trimEnd();
     if (keyword === 'END') {
       const headerBytes = (n + 1) * FITS_CARD_CHARS;
-      const dataOffset = Math.ceil(headerBytes / FITS_BLOCK_BYTES) * FITS_BLOCK_BYTES;
+      const dataOffset = start + Math.ceil(headerBytes / FITS_BLOCK_BYTES) * FITS_BLOCK_BYTES;
       return { ok: true, header: { values, dataOffset } };
     }
     // §4.1.2.2: "= " in columns 9–10 marks a value; COMMENT, HISTORY and blank keywords have none.
