@@ -5,6 +5,9 @@ const enc = (s: string) => new TextEncoder().encode(s);
 const pixel = { axis: 'pixel' as const, nmPerUnit: 1 };
 const rows = (n: number, sep = ',') => Array.from({ length: n }, (_, i) => `${i}${sep}${10 + i}`).join('\n');
 
+// Comma- and tab-separated rows as RFC 4180 (CSV) and the IANA text/tab-separated-values
+// registration describe them (numbers only, so no quoting); semicolons, runs of spaces and
+// # comment lines are what spectrometer software writes (common practice).
 describe('delimited-text profiles', () => {
   it('reads commas, tabs, semicolons and spaces, skips a header and # comments', () => {
     for (const sep of [',', '\t', ';', '   ']) {

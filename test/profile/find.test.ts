@@ -115,6 +115,7 @@ describe('blends, absorption, uncertainties, add and drop', () => {
     expect(Math.abs(pair[1]!.centre - (100 + d))).toBeLessThan(5 * pair[1]!.centre_sigma + 0.05);
   });
 
+  // Depth = 1 − F/F_continuum at the line centre (the usual definition, common practice).
   it('absorption dips on a sloping continuum: depths as a fraction of the continuum', () => {
     const g = mulberry32(5);
     const n = 1000;
@@ -138,6 +139,9 @@ describe('blends, absorption, uncertainties, add and drop', () => {
     });
   });
 
+  // With known point uncertainties the parameter covariance of a weighted least-squares fit is
+  // (JᵀWJ)⁻¹ (Press et al., Numerical Recipes, 3rd ed., §15.4–15.5), so the reported σ must
+  // match the Monte-Carlo scatter.
   it('given uncertainties are used as they are: reported σ matches the scatter', () => {
     const errors: number[] = [];
     const reported: number[] = [];
