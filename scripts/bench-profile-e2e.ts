@@ -15,9 +15,24 @@ const LAMPS = ['He I', 'Ne I', 'Ar I', 'Hg I', 'Kr I', 'Xe I', 'H I', 'Na I'];
 const FROM_NM = 395;
 const STEP_NM = 0.1;
 const POINTS = 3101;
-const SIGMA_PX = 2.2;
+export interface Scenario {
+  label: string;
+  /** Peak SNR of the brightest line over a 100-count background. */
+  peakSnr: number;
+  sigmaPx: number;
+}
+
+export const SCENARIOS: Scenario[] = [
+  { label: 'bright, sharp (peak SNR 300, FWHM 0.52 nm)', peakSnr: 300, sigmaPx: 2.2 },
+  { label: 'faint, blurred (peak SNR 40, FWHM 1.4 nm)', peakSnr: 40, sigmaPx: 6 },
+];
 
 export function pipelineOf(catalog: Catalog, seed: number, out: Writable, trials = 60): void {
+  for (const scenario of SCENARIOS) scenarioOf(catalog, seed, out, trials, scenario);
+}
+
+function scenarioOf(catalog: Catalog, seed: number, out: Writable, trials: number, scenario: Scenario): void {
+  const SIGMA_PX = scenario.sigmaPx;
   const rand = mulberry32(seed + 1);
   const lamps = LAMPS.filter((s) => visibleLines(catalog, s, [400, 700], 'air', 0).length >= 4);
   let profileRight = 0;
@@ -36,7 +51,7 @@ export function pipelineOf(catalog: Catalog, seed: number, out: Writable, trials
       0,
     ).slice(0, 15);
     const top = lines[0]!.intensity;
-    const peak = 300 * 10; // the brightest line's peak at SNR 300 over a 100-count background
+    const peak = scenario.peakSnr * 10; // the brightest line's peak over a 100-count background (σ 10)
     const truth = lines.map((l) => {
       const air = vacuumToAir(l.vacuum_nm);
       return {
@@ -72,7 +87,7 @@ export function pipelineOf(catalog: Catalog, seed: number, out: Writable, trials
     typedIdentified += byHand.identification.lines.filter((l) => l.status === 'identified').length;
   }
   const pct = (a: number, b: number) => `${((100 * a) / Math.max(1, b)).toFixed(1)} %`;
-  out.write(`End to end (${trials} lamp profiles: ${lamps.join(', ')})\n`);
+  out.write(`End to end, ${scenario.label} (${trials} lamp profiles: ${lamps.join(', ')})\n`);
   out.write(
     `  right species from the profile: ${profileRight}/${trials} = ${pct(profileRight, trials)}; lines identified ${pct(profileIdentified, profileLines)}\n`,
   );

@@ -6,7 +6,8 @@
  *      centroid scatter in units of the photon-noise limit of a least-squares Gaussian fit
  *      (Thompson, Larson & Webb 2002, Biophys. J. 82:2775, eq. 17; from memory).
  *   2. end to end: lamp profiles on a wavelength axis (lines and relative intensities from the
- *      bundled catalog), identified from the found lines and from typed lines with the same σ.
+ *      bundled catalog), bright and sharp or faint and blurred, identified from the found lines
+ *      and from the same lines typed at their true wavelengths plus noise of the same σ.
  *   3. speed: one 4096-point profile with 40 lines to lines, median of 30 runs.
  * SNR here is a line's peak height over the background noise of one pixel.
  *   --seed N   seed (default 20261202)   --n N   profiles in part 1 (default 200)
