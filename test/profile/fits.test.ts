@@ -122,6 +122,10 @@ describe('FITS primary array data (FITS Standard 4.0 §5 and §4.4.2.5, from mem
     );
     expect(r.ok).toBe(false);
   });
+  it('a header claiming more points than the limit is refused before anything is allocated', () => {
+    const r = parseFitsProfile(new TextEncoder().encode(header(primary(8, 2_000_000))), 'x.fits');
+    expect(!r.ok && r.problems[0]?.message).toMatch(/limit is 1000000/);
+  });
   it('a data part shorter than NAXIS1 points is refused', () => {
     const bytes = fitsFile(primary(-64, 1000), -64, ramp(1000)).subarray(0, 2880 * 2);
     expect(parseFitsProfile(bytes, 'x.fits').ok).toBe(false);

@@ -7,6 +7,8 @@
  * 747, "Paper III", §2 and Table 1), whose default unit is the metre; CUNIT1 may say otherwise.
  * Section numbers are recalled ("from memory").
  */
+
+import { MAX_PROFILE_POINTS } from './check.js';
 import { type FitsValue, parseFitsHeader } from './fitsHeader.js';
 import { parseFitsTable } from './fitsTable.js';
 import type { ProfileParse, ProfileProblem } from './types.js';
@@ -57,6 +59,11 @@ export function parseFitsProfile(bytes: Uint8Array, name: string): ProfileParse 
         'write a 1-D spectrum: extract it first',
       );
   }
+  if (n1 > MAX_PROFILE_POINTS)
+    return problem(
+      `${name} has ${n1} points; the limit is ${MAX_PROFILE_POINTS}`,
+      'cut the profile to the range of interest, or bin it',
+    );
   const size = Math.abs(bitpix) / 8;
   const offset = head.header.dataOffset;
   if (bytes.length < offset + n1 * size)

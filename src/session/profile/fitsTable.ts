@@ -9,6 +9,8 @@
  * INTENSITY or COUNTS; an uncertainty column ERR, ERROR, SIGMA, FLUX_ERR or UNCERTAINTY is used
  * when present.
  */
+
+import { MAX_PROFILE_POINTS } from './check.js';
 import { type FitsValue, parseFitsHeader } from './fitsHeader.js';
 import type { ProfileParse } from './types.js';
 
@@ -142,6 +144,11 @@ export function parseFitsTable(bytes: Uint8Array, start: number, name: string): 
         `${name}: column ${c.name} does not hold one value per point`,
         'give every column the same number of values',
       );
+  if (points > MAX_PROFILE_POINTS)
+    return fail(
+      `${name} has ${points} points; the limit is ${MAX_PROFILE_POINTS}`,
+      'cut the profile to the range of interest, or bin it',
+    );
   const dataBytes = rowBytes * rows;
   if (bytes.length < head.header.dataOffset + dataBytes)
     return fail(`${name} is shorter than its table`, 'the file is cut short: save it again');
