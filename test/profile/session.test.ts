@@ -92,3 +92,14 @@ describe('a session names its profile', () => {
     expect(!pixelMethod.ok && pixelMethod.diagnostics[0]?.code).toBe('profile-axis');
   });
 });
+
+describe('finding the profile name before the full read', () => {
+  it('names the profile file, or none', async () => {
+    const { profileFileOf } = await import('../../src/session/profile/ref.js');
+    const enc = (s: string) => new TextEncoder().encode(s);
+    expect(profileFileOf(enc('lineledger: 1\nprofile: { file: a.csv }\n'))).toBe('a.csv');
+    expect(profileFileOf(enc('lineledger: 1\nlines: []\n'))).toBeNull();
+    expect(profileFileOf(enc('profile: { file: 3 }\n'))).toBeNull();
+    expect(profileFileOf(enc('profile: [oops\n'))).toBeNull();
+  });
+});
