@@ -72,6 +72,14 @@ async function profileBlock(
   const pixel = data.axis === 'pixel';
   const unit = pixel ? 'px' : 'nm';
   const status = new Map(input.identification.lines.map((l) => [l.index, l.status]));
+  const assigned = new Map(
+    input.identification.lines.map((l) => [
+      l.index,
+      l.assignment
+        ? `${speciesLabel(l.assignment.species, l.assignment.flags)}${l.status === 'tentative' ? ' (tentative)' : ''}`
+        : '—',
+    ]),
+  );
   const absorb = finding.kind === 'absorption';
   const threshold = finding.continuum.map((c) =>
     absorb ? c * (1 - finding.threshold) : c + finding.threshold,
@@ -117,6 +125,7 @@ async function profileBlock(
       strength: absorb ? `${fixed(100 * l.amplitude, 1)} %` : fixed(100 * l.relative, 1),
       snr: fixed(l.snr, 0),
       origin: l.origin === 'added' ? 'profile.add' : 'found',
+      assigned: assigned.get(i) ?? '—',
     })),
     strengthTitle: absorb ? 'Depth' : 'Relative area (%)',
   };
