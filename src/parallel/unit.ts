@@ -67,7 +67,13 @@ export async function processSession(
   // Buffer, not TextDecoder: the copy in the site must keep a byte-order mark if there is one.
   const text = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('utf8');
   const noting = new NotingCache(charts);
-  const part = await renderSessionPart(outcome, text, ctx.render, noting);
+  const part = await renderSessionPart(
+    outcome,
+    text,
+    ctx.render,
+    noting,
+    profile && 'bytes' in profile ? profile.bytes : null,
+  );
   const local = (d: Diagnostic): Diagnostic => ({ ...d, file: fileName });
   const session = outcome.session;
   return {

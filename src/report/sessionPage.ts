@@ -11,6 +11,7 @@ import { type ChartCache, renderChart } from './charts/render.js';
 import { calibrationChart, residualChart, scanChart, scoreChart, spectrumChart } from './charts/specs.js';
 import { display, fixed, percent, probability, speciesLabel } from './format.js';
 import { renderNotes } from './notes.js';
+import { profileCopyName } from './profileCopy.js';
 import type { ResultJson } from './result.js';
 import {
   EVIDENCE_SCALE,
@@ -111,6 +112,7 @@ async function profileBlock(
   const digits = pixel ? 2 : 4;
   return {
     file: spec.file,
+    copy: profileCopyName(spec.file),
     sha256: spec.sha256,
     description: data.description,
     text: `${finding.lines.length} ${finding.kind} line${finding.lines.length === 1 ? '' : 's'} found; noise of one point ${noise}; a line must stand ${finding.threshold_sigma}σ out (${level}); typical FWHM ${fixed(finding.fwhm_estimate, digits)} ${unit}.${finding.dropped.length ? ` ${finding.dropped.length} left out by profile.drop.` : ''}`,
