@@ -5,7 +5,7 @@
  *   tsx scripts/make-archive.ts OUT_DIR [N] [SEED]
  */
 
-import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { copyFileSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { mulberry32 } from '../test/helpers/random.js';
@@ -44,6 +44,9 @@ export function makeArchive(outDir: string, count = 500, seed = 20260314): strin
     .map((n) => ({ name: n, text: readFileSync(join(DEMO, n), 'utf8') }));
   const next = mulberry32(seed);
   mkdirSync(outDir, { recursive: true });
+  // Recorded profiles the demo sessions name (CSV, FITS) sit beside their copies.
+  for (const n of readdirSync(DEMO).filter((x) => !x.endsWith('.yaml')))
+    copyFileSync(join(DEMO, n), join(outDir, n));
   const written: string[] = [];
   for (let n = 0; n < count; n++) {
     const demo = demos[n % demos.length] as { name: string; text: string };

@@ -7,6 +7,7 @@
 import {
   closeSync,
   fstatSync,
+  lstatSync,
   openSync,
   readdirSync,
   readFileSync,
@@ -36,6 +37,8 @@ import {
 } from './report/site.js';
 import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
 import { SESSION_LIMITS } from './session/limits.js';
+import { profileFileOf } from './session/profile/ref.js';
+import type { ProfileInput } from './session/profile/types.js';
 import type { InstrumentSpec } from './session/types.js';
 import { checkBuildTargets } from './write/guard.js';
 import { readManifest, verifiedFiles, writeManifest } from './write/manifest.js';
@@ -244,6 +247,69 @@ export function readSessionInput(
   }
 }
 
+/** A profile is at most this big (a 1-D spectrum of a million float64 points is 8 MB). */
+export const MAX_PROFILE_BYTES = 16 * 1024 * 1024;
+
+/**
+ * The profile file a session names, read at the edge with the same guard as session files:
+ * the name is relative to the session's folder and may not leave it (by `..`, an absolute
+ * path, or a link); the size is checked before reading. null when the session names none.
+ */
+export function readProfileInput(sessionPath: string, sessionBytes: Uint8Array): ProfileInput | null {
+  const name = profileFileOf(sessionBytes);
+  if (name === null) return null;
+  const folder = dirname(resolve(sessionPath));
+  const problem = (code: string, message: string, hint: string): ProfileInput => ({
+    name,
+    problem: { code, message, hint },
+  });
+  const target = resolve(folder, name);
+  const rel = relative(folder, target);
+  if (isAbsolute(name) || rel === '' || rel === '..' || rel.startsWith(`..${sep}`) || isAbsolute(rel))
+    return problem(
+      'profile-outside',
+      `${name} is not inside the session's folder; it is not read`,
+      'put the profile beside the session file (or in a folder below it) and name it relative to the session',
+    );
+  try {
+    lstatSync(target);
+  } catch {
+    return problem(
+      'profile-missing',
+      `${name} does not exist beside the session`,
+      'check the file name (it is relative to the session file)',
+    );
+  }
+  const input = readSessionInput(target, folder, MAX_PROFILE_BYTES);
+  if (input === null)
+    return problem('profile-not-a-file', `${name} is a folder`, 'name the profile file itself');
+  if ('problem' in input) {
+    const p = input.problem;
+    if (p.code === 'file-too-large')
+      return problem(
+        'profile-too-large',
+        `${name}: ${p.message}`,
+        'cut the profile to the range of interest, or bin it',
+      );
+    if (p.code === 'link-outside')
+      return problem(
+        'profile-outside',
+        `${name} is a link to a file outside the session's folder; it is not read`,
+        'copy the file beside the session instead of linking to it',
+      );
+    if (p.code === 'broken-link' || p.code === 'unreadable') {
+      const missing = p.code === 'unreadable' && /ENOENT/.test(p.message);
+      return problem(
+        missing ? 'profile-missing' : `profile-${p.code}`,
+        missing ? `${name} does not exist beside the session` : `${name} ${p.message}`,
+        missing ? 'check the file name (it is relative to the session file)' : (p.hint ?? ''),
+      );
+    }
+    return problem(`profile-${p.code}`, `${name} ${p.message}`, p.hint ?? '');
+  }
+  return { name, bytes: input.bytes };
+}
+
 /** The unit of a file that could not be read: it fails with its one problem, the rest build. */
 function unreadableUnit(path: string, problem: Diagnostic): SessionUnit {
   const fileName = escapeControls(path.replace(/^.*[\\/]/, ''));
@@ -353,8 +419,9 @@ export async function buildSite(
     instrumentDefaults,
   });
   // Unreadable files have no key: they are never cached.
-  const keys = inputs.map((i) =>
-    'bytes' in i ? sessionKey(context, i.path.replace(/^.*[\\/]/, ''), i.bytes) : '',
+  const profiles = inputs.map((i) => ('bytes' in i ? readProfileInput(i.path, i.bytes) : null));
+  const keys = inputs.map((i, n) =>
+    'bytes' in i ? sessionKey(context, i.path.replace(/^.*[\\/]/, ''), i.bytes, profiles[n] ?? null) : '',
   );
   // A session is either computed in this build or known from the cache by its head.
   type Known = { unit: SessionUnit; head?: undefined } | { unit?: undefined; head: UnitHead };
@@ -426,7 +493,7 @@ export async function buildSite(
   const todo: TaskMessage[] = [];
   inputs.forEach((input, index) => {
     if (units[index] === undefined && 'bytes' in input)
-      todo.push({ index, path: input.path, bytes: input.bytes });
+      todo.push({ index, path: input.path, bytes: input.bytes, profile: profiles[index] ?? null });
   });
   const jobs = options.jobs === undefined || options.jobs === 'auto' ? autoJobs(todo.length) : options.jobs;
 
@@ -443,7 +510,13 @@ export async function buildSite(
     const here = async (t: TaskMessage) => {
       if (processSession === null) throw new Error('no session to compute');
       const t0 = performance.now();
-      const unit = await processSession(t.path, t.bytes, { render: ctx, instrumentDefaults }, charts);
+      const unit = await processSession(
+        t.path,
+        t.bytes,
+        { render: ctx, instrumentDefaults },
+        charts,
+        t.profile,
+      );
       return { unit, ms: performance.now() - t0 };
     };
     if (jobs <= 1) {

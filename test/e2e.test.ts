@@ -38,7 +38,8 @@ describe('lineledger build (demo)', () => {
     const index = readFileSync(join(out, 'index.html'), 'utf8');
     expect(index).toContain('<title>Hollins Lane Science Club — spectral line archive</title>');
     expect(index).toContain('prep room, optics bench');
-    for (const f of readdirSync('data/sessions')) expect(f).toMatch(/\.yaml$/);
+    // Sessions, and the recorded profiles two of them name.
+    for (const f of readdirSync('data/sessions')) expect(f).toMatch(/\.(yaml|csv|fits)$/);
   });
 
   it('identifies each demo session as its scenario says', () => {
@@ -49,6 +50,8 @@ describe('lineledger build (demo)', () => {
       'tube-e-2026-03-28': ['He I'],
       'lamp-screen-2026-04-16': ['Hg I'],
       'street-lamp-2026-04-24': ['Na I'],
+      'tube-f-camera-2026-06-06': ['He I'],
+      'star-k-2026-06-12': ['H I'],
     };
     for (const [id, species] of Object.entries(expected)) {
       const result = JSON.parse(readFileSync(join(out, 'sessions', id, 'result.json'), 'utf8'));

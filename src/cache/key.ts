@@ -7,6 +7,7 @@ import { createHash } from 'node:crypto';
 import type { Catalog } from '../lines/types.js';
 import type { SiteSettings } from '../report/site.js';
 import type { TemplateTexts } from '../report/templates.js';
+import type { ProfileInput } from '../session/profile/types.js';
 import type { InstrumentSpec } from '../session/types.js';
 
 export interface ContextKeyInput {
@@ -49,6 +50,18 @@ export function contextKey(input: ContextKeyInput): string {
   return createHash('sha256').update(JSON.stringify(parts)).digest('hex');
 }
 
-export function sessionKey(context: string, fileName: string, bytes: Uint8Array): string {
-  return createHash('sha256').update(`${context}\n${fileName}\n`).update(bytes).digest('hex');
+export function sessionKey(
+  context: string,
+  fileName: string,
+  bytes: Uint8Array,
+  profile: ProfileInput | null = null,
+): string {
+  const h = createHash('sha256').update(`${context}\n${fileName}\n`).update(bytes);
+  // A session with a profile depends on that file's bytes (or on why it could not be read).
+  if (profile !== null) {
+    h.update(`\nprofile\n${profile.name}\n`);
+    if ('bytes' in profile) h.update(profile.bytes);
+    else h.update(JSON.stringify(profile.problem));
+  }
+  return h.digest('hex');
 }

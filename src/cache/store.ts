@@ -10,7 +10,7 @@ import { basename, dirname, join, resolve } from 'node:path';
 import { threadId } from 'node:worker_threads';
 import type { SessionUnit } from '../parallel/unit.js';
 import type { SessionPart, SiteFile } from '../report/site.js';
-import { contentHash } from '../write/manifest.js';
+import { contentHash, siteFileData } from '../write/manifest.js';
 
 export interface FileRef {
   path: string;
@@ -137,7 +137,7 @@ export class SessionStore {
       ...unit,
       part: {
         ...unit.part,
-        files: unit.part.files.map((f) => ({ path: f.path, sha256: contentHash(f.contents) })),
+        files: unit.part.files.map((f) => ({ path: f.path, sha256: contentHash(siteFileData(f)) })),
       },
     };
     try {

@@ -167,6 +167,9 @@ function watchTargets(dirArg: string | undefined, opts: BuildFlags): Map<string,
 
 const DEBOUNCE_MS = 200;
 
+/** Session files, and the kinds of profile file a session may name beside it. */
+const WATCHED_SESSION_FILES = /\.(ya?ml|csv|tsv|txt|dat|fits?|fts)$/i;
+
 /**
  * Watches the folders holding the sessions, the config and the own line lists (folders, not
  * files: editors save by replacing a file, which ends a watch on the file itself). Changes are
@@ -203,7 +206,8 @@ async function watchAndBuild(dirArg: string | undefined, opts: BuildFlags): Prom
     watchers = [...targets].map(([dir, names]) =>
       watch(dir, (_event, name) => {
         const file = name?.toString() ?? null;
-        if (file !== null && (names ? !names.has(file) : !/\.ya?ml$/i.test(file))) return;
+        // In the sessions folder: session files, and the profile files sessions name beside them.
+        if (file !== null && (names ? !names.has(file) : !WATCHED_SESSION_FILES.test(file))) return;
         schedule();
       }),
     );

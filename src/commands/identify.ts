@@ -1,6 +1,7 @@
 /** `lineledger identify FILE [--json]`: one session, reduced and identified, printed. */
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
+import { readProfileInput } from '../build.js';
 import { runSession } from '../pipeline.js';
 import { display, fixed, percent, probability } from '../report/format.js';
 import { buildResult, type ResultJson } from '../report/result.js';
@@ -59,7 +60,10 @@ function identify(file: string, opts: { json?: boolean; config?: string }): numb
   }
   const config = loadConfig(opts.config);
   const catalog = loadCatalogFor(config);
-  const outcome = runSession(file, bytes, catalog, { instrumentDefaults: config.defaultInstrument });
+  const outcome = runSession(file, bytes, catalog, {
+    instrumentDefaults: config.defaultInstrument,
+    profile: readProfileInput(file, bytes),
+  });
   const text = bytes.toString('utf8');
   if (!outcome.ok) {
     printDiagnostics(outcome.diagnostics, text);

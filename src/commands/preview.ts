@@ -34,6 +34,10 @@ const CONTENT_TYPES: Record<string, string> = {
   '.jpg': 'image/jpeg',
   '.pdf': 'application/pdf',
   '.txt': 'text/plain; charset=utf-8',
+  '.tsv': 'text/tab-separated-values; charset=utf-8',
+  '.fits': 'application/fits',
+  '.fit': 'application/fits',
+  '.fts': 'application/fits',
   '.js': 'text/javascript; charset=utf-8',
 };
 

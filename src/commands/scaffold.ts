@@ -8,9 +8,13 @@ import { basename, dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { type Command, Option } from 'commander';
 import { safeIdFromFileName } from '../session/read.js';
-import { dateFromFileName, schemaReference, sessionTemplate } from '../session/scaffold.js';
-import { METHODS } from '../session/schema.js';
-import type { MeasurementMethod } from '../session/types.js';
+import {
+  dateFromFileName,
+  schemaReference,
+  sessionTemplate,
+  TEMPLATE_KINDS,
+  type TemplateKind,
+} from '../session/scaffold.js';
 import { checkFileTarget } from '../write/guard.js';
 import { CommandFailure, EXIT_OK, EXIT_PROBLEMS } from './common.js';
 
@@ -43,7 +47,7 @@ function projectRootOf(dir: string): string {
   return rel.startsWith('..') || resolve(cwd, rel) !== dir ? dir : cwd;
 }
 
-function scaffold(file: string, opts: { method: MeasurementMethod; force?: boolean }): number {
+function scaffold(file: string, opts: { method: TemplateKind; force?: boolean }): number {
   if (!/\.ya?ml$/i.test(file))
     throw new CommandFailure(`${file}: a session file name must end in .yaml (the build reads only those)`);
   const target = resolve(file);
@@ -90,12 +94,13 @@ export function registerScaffold(program: Command, done: (code: number) => void)
     .description('write a new session file to fill in, for one measurement method')
     .argument('<file>', 'the session file to create (ends in .yaml)')
     .addOption(
-      new Option('--method <method>', 'how the line positions are read')
-        .choices(METHODS)
+      new Option(
+        '--method <method>',
+        'how the line positions are read (profile: a recorded profile whose lines are found)',
+      )
+        .choices([...TEMPLATE_KINDS])
         .makeOptionMandatory(),
     )
     .option('--force', 'replace the file if it exists')
-    .action((file: string, opts: { method: MeasurementMethod; force?: boolean }) =>
-      done(scaffold(file, opts)),
-    );
+    .action((file: string, opts: { method: TemplateKind; force?: boolean }) => done(scaffold(file, opts)));
 }

@@ -7,7 +7,7 @@
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
-import { readSessionInput } from '../build.js';
+import { readProfileInput, readSessionInput } from '../build.js';
 import { compareDiagnostics, type Diagnostic } from '../diagnostics.js';
 import { candidateSpecies } from '../identify/candidates.js';
 import type { Catalog } from '../lines/types.js';
@@ -165,7 +165,12 @@ function vet(paths: string[], opts: VetFlags): number {
       if (input === null) return [];
       if ('problem' in input) return [{ file: path, ok: false, id: null, diagnostics: [input.problem] }];
       texts.set(path, input.bytes);
-      return [vetSession(path, input.bytes, catalog, { instrumentDefaults: config.defaultInstrument })];
+      return [
+        vetSession(path, input.bytes, catalog, {
+          instrumentDefaults: config.defaultInstrument,
+          profile: readProfileInput(path, input.bytes),
+        }),
+      ];
     }),
   );
   if (format === 'json') {

@@ -2,6 +2,7 @@
 import type { Catalog } from '../lines/types.js';
 import type { RenderContext } from '../report/site.js';
 import type { TemplateTexts } from '../report/templates.js';
+import type { ProfileInput } from '../session/profile/types.js';
 import type { InstrumentSpec } from '../session/types.js';
 import type { SessionUnit } from './unit.js';
 
@@ -19,6 +20,8 @@ export interface TaskMessage {
   index: number;
   path: string;
   bytes: Uint8Array;
+  /** The profile file the session names, read at the edge (null: it names none). */
+  profile: ProfileInput | null;
 }
 
 export type ResultMessage =

@@ -13,6 +13,7 @@ import {
   type SessionHeadline,
   type SessionPart,
 } from '../report/site.js';
+import type { ProfileInput } from '../session/profile/types.js';
 import type { InstrumentSpec } from '../session/types.js';
 import { NotingCache } from './noting.js';
 
@@ -44,14 +45,21 @@ export async function processSession(
   bytes: Uint8Array,
   ctx: UnitContext,
   charts: ChartCache,
+  profile: ProfileInput | null = null,
 ): Promise<SessionUnit> {
   const fileName = baseName(path);
   const catalog: Catalog = ctx.render.catalog;
-  const outcome = runSession(path, bytes, catalog, { instrumentDefaults: ctx.instrumentDefaults });
+  const outcome = runSession(path, bytes, catalog, { instrumentDefaults: ctx.instrumentDefaults, profile });
   // Buffer, not TextDecoder: the copy in the site must keep a byte-order mark if there is one.
   const text = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('utf8');
   const noting = new NotingCache(charts);
-  const part = await renderSessionPart(outcome, text, ctx.render, noting);
+  const part = await renderSessionPart(
+    outcome,
+    text,
+    ctx.render,
+    noting,
+    profile && 'bytes' in profile ? profile.bytes : null,
+  );
   const local = (d: Diagnostic): Diagnostic => ({ ...d, file: fileName });
   const session = outcome.session;
   return {

@@ -18,7 +18,7 @@ const charts = new ChartStore(init.chartDir);
 async function run(task: TaskMessage): Promise<ResultMessage> {
   const t0 = performance.now();
   try {
-    const unit = await processSession(task.path, task.bytes, ctx, charts);
+    const unit = await processSession(task.path, task.bytes, ctx, charts, task.profile);
     return { index: task.index, ok: true, unit, ms: performance.now() - t0 };
   } catch (e) {
     return { index: task.index, ok: false, error: (e as Error).stack ?? String(e) };

@@ -13,6 +13,8 @@ import { reduceGratingAngles } from './methods/gratingAngle.js';
 import { reducePixels } from './methods/pixel.js';
 import { reduceScreen } from './methods/screen.js';
 import { reduceWavelengths } from './methods/wavelength.js';
+import type { ProfileFinding } from './profile/find.js';
+import { aboutFoundLines, linesFromProfile } from './profile/lines.js';
 import { resolveKnownShift } from './shift.js';
 import type { MeasuredLine, MethodResult, Reduction } from './types.js';
 
@@ -25,7 +27,19 @@ const REDUCERS: Partial<Record<MeasurementMethod, MethodReducer>> = {
   pixel: reducePixels,
 };
 
-export function reduceSession(session: Session): Outcome<Reduction> {
+export function reduceSession(given: Session): Outcome<Reduction> {
+  // A profile's lines are found first; from then on they are the session's lines.
+  let session = given;
+  let profile: ProfileFinding | null = null;
+  const profileNotes: Diagnostic[] = [];
+  if (given.profile) {
+    const found = linesFromProfile(given, given.profile);
+    if (found.diagnostics.some((d) => d.severity === 'error'))
+      return { ok: false, diagnostics: found.diagnostics };
+    session = found.session;
+    profile = found.finding;
+    profileNotes.push(...found.diagnostics);
+  }
   const reducer = REDUCERS[session.measurement.method];
   if (!reducer) {
     return {
@@ -43,10 +57,14 @@ export function reduceSession(session: Session): Outcome<Reduction> {
       ],
     };
   }
-  const result = reducer(session);
+  const reduced = reducer(session);
+  const result = profile ? { ...reduced, diagnostics: aboutFoundLines(reduced.diagnostics) } : reduced;
   const errors = result.diagnostics.filter((d) => d.severity === 'error');
   if (errors.length > 0) return { ok: false, diagnostics: result.diagnostics };
-  const warnings: Diagnostic[] = result.diagnostics.filter((d) => d.severity !== 'error');
+  const warnings: Diagnostic[] = [
+    ...profileNotes,
+    ...result.diagnostics.filter((d) => d.severity !== 'error'),
+  ];
 
   const sameAs = new Map<number, number>();
   for (const line of session.lines) if (line.same_as !== null) sameAs.set(line.index, line.same_as);
@@ -90,8 +108,14 @@ export function reduceSession(session: Session): Outcome<Reduction> {
       medium: session.medium,
       lines,
       calibration: result.calibration,
+      profile,
       shift,
-      description: result.description,
+      description: profile
+        ? {
+            ...result.description,
+            text: `${result.description.text} The lines were found in the recorded profile ${given.profile?.file ?? ''} (below), not read by eye.`,
+          }
+        : result.description,
       resolution_nm: resolutionNm(session, lines),
       warnings,
     },

@@ -1,6 +1,7 @@
 /** What the reduce stage hands to identification and to the record. */
 import type { Diagnostic, SourcePosition } from '../diagnostics.js';
 import type { LineKind, Medium, Session } from '../session/types.js';
+import type { ProfileFinding } from './profile/find.js';
 
 /** One reading turned into a wavelength in the session's medium, before air→vacuum and shift. */
 export interface ObservedReading {
@@ -99,6 +100,8 @@ export interface Reduction {
   medium: Medium;
   lines: MeasuredLine[];
   calibration: CalibrationResult | null;
+  /** The lines found in the session's profile, its continuum and threshold (null: lines were typed). */
+  profile: ProfileFinding | null;
   /** A known shift that was removed; a searched shift is found later, by identification. */
   shift: AppliedShift | null;
   description: MethodDescription;

@@ -5,6 +5,7 @@
 import type { Identification } from '../identify/types.js';
 import { countOrigins, type ReferenceOrigin, referenceOrigin } from '../lines/origin.js';
 import type { Catalog } from '../lines/types.js';
+import type { FoundLine } from '../reduce/profile/find.js';
 import type { CalibrationResult, Reduction } from '../reduce/types.js';
 
 export interface ResultJson {
@@ -90,6 +91,25 @@ export interface ResultJson {
     };
   } | null;
   calibration: CalibrationResult | null;
+  /** The recorded profile the lines were found in, and what the finder did (null: lines were typed). */
+  profile: {
+    file: string;
+    /** Hex SHA-256 of the profile file, beside input.sha256 of the session. */
+    sha256: string;
+    format: string;
+    axis: string;
+    points: number;
+    kind: string;
+    threshold_sigma: number;
+    /** Noise of one point and the detection level: intensity units, or fractions of the continuum (absorption). */
+    noise: number;
+    threshold: number;
+    /** In the profile's axis unit: px, or nm as recorded. */
+    fwhm_estimate: number;
+    lines: ProfileLineJson[];
+    dropped: ProfileLineJson[];
+    unmatched_drops: number[];
+  } | null;
   range_nm: [number, number];
   fwhm_nm: number;
   /** A reading offset (and scale error) fitted and removed before identification, or null. */
@@ -112,6 +132,46 @@ function r(x: number, digits = 6): number {
   if (!Number.isFinite(x)) return x;
   const f = 10 ** digits;
   return Math.round(x * f) / f;
+}
+
+export interface ProfileLineJson {
+  centre: number;
+  centre_sigma: number;
+  fwhm: number;
+  amplitude: number;
+  relative: number;
+  snr: number;
+  origin: string;
+}
+
+function profileJson(reduction: Reduction): ResultJson['profile'] {
+  const f = reduction.profile;
+  const spec = reduction.session.profile;
+  if (!f || !spec) return null;
+  const line = (l: FoundLine): ProfileLineJson => ({
+    centre: r(l.centre, 6),
+    centre_sigma: r(l.centre_sigma, 6),
+    fwhm: r(l.fwhm, 5),
+    amplitude: r(l.amplitude, 6),
+    relative: r(l.relative, 5),
+    snr: r(l.snr, 2),
+    origin: l.origin,
+  });
+  return {
+    file: spec.file,
+    sha256: spec.sha256,
+    format: spec.data.format,
+    axis: spec.data.axis,
+    points: spec.data.x.length,
+    kind: f.kind,
+    threshold_sigma: f.threshold_sigma,
+    noise: r(f.noise, 6),
+    threshold: r(f.threshold, 6),
+    fwhm_estimate: r(f.fwhm_estimate, 5),
+    lines: f.lines.map(line),
+    dropped: f.dropped.map(line),
+    unmatched_drops: f.unmatched_drops,
+  };
 }
 
 export function buildResult(
@@ -210,6 +270,7 @@ export function buildResult(
     },
     shift: shiftJson(reduction, identification),
     calibration: reduction.calibration,
+    profile: profileJson(reduction),
     range_nm: [r(identification.range_nm[0], 4), r(identification.range_nm[1], 4)],
     fwhm_nm: r(identification.fwhm_nm, 4),
     scale_correction: identification.scale

@@ -6,10 +6,12 @@ import type { Catalog } from '../lines/types.js';
 import type { Reduction } from '../reduce/types.js';
 import type { Session } from '../session/types.js';
 import { cautionsFor } from './cautions.js';
+import { profileChart } from './charts/profile.js';
 import { type ChartCache, renderChart } from './charts/render.js';
 import { calibrationChart, residualChart, scanChart, scoreChart, spectrumChart } from './charts/specs.js';
 import { display, fixed, percent, probability, speciesLabel } from './format.js';
 import { renderNotes } from './notes.js';
+import { profileCopyName } from './profileCopy.js';
 import type { ResultJson } from './result.js';
 import {
   EVIDENCE_SCALE,
@@ -57,6 +59,78 @@ function siteText(s: Session): string | null {
     bits.push(`${fixed(s.site.lat, 3)}°, ${fixed(s.site.lon, 3)}°`);
   if (s.site.elevation_m !== null) bits.push(`${s.site.elevation_m} m`);
   return bits.filter(Boolean).join(', ');
+}
+
+/** The recorded profile with its found lines, continuum and threshold, when the lines were found. */
+async function profileBlock(
+  input: SessionPageInput,
+  cache: ChartCache,
+): Promise<Record<string, unknown> | null> {
+  const finding = input.reduction.profile;
+  const spec = input.reduction.session.profile;
+  if (!finding || !spec) return null;
+  const data = spec.data;
+  const pixel = data.axis === 'pixel';
+  const unit = pixel ? 'px' : 'nm';
+  const status = new Map(input.identification.lines.map((l) => [l.index, l.status]));
+  const assigned = new Map(
+    input.identification.lines.map((l) => [
+      l.index,
+      l.assignment
+        ? `${speciesLabel(l.assignment.species, l.assignment.flags)}${l.status === 'tentative' ? ' (tentative)' : ''}`
+        : '—',
+    ]),
+  );
+  const absorb = finding.kind === 'absorption';
+  const threshold = finding.continuum.map((c) =>
+    absorb ? c * (1 - finding.threshold) : c + finding.threshold,
+  );
+  const noise = absorb ? `${fixed(100 * finding.noise, 2)} % of the continuum` : `${fixed(finding.noise, 3)}`;
+  const level = absorb
+    ? `${fixed(100 * finding.threshold, 2)} % deep`
+    : `${fixed(finding.threshold, 3)} above the continuum`;
+  const title = `The recorded profile ${spec.file} (black) with its continuum (dashed blue), the detection threshold (dotted orange, ${finding.threshold_sigma}σ) and the ${finding.lines.length} lines found, numbered as in the tables and coloured by their assignment${finding.dropped.length ? '; lines left out by profile.drop in grey' : ''}.`;
+  const chart = await renderChart(
+    profileChart({
+      title,
+      axisTitle: pixel ? 'Pixel' : `Wavelength (${input.reduction.medium} nm, as recorded)`,
+      x: data.x,
+      intensity: data.intensity,
+      continuum: finding.continuum,
+      threshold,
+      lines: [
+        ...finding.lines.map((l, i) => ({
+          x: l.centre,
+          number: i + 1,
+          status: (status.get(i) ?? 'unexplained') as 'identified' | 'tentative' | 'unexplained',
+        })),
+        ...finding.dropped.map((l) => ({ x: l.centre, number: 0, status: 'dropped' as const })),
+      ],
+    }),
+    cache,
+  );
+  const digits = pixel ? 2 : 4;
+  return {
+    file: spec.file,
+    copy: profileCopyName(spec.file),
+    sha256: spec.sha256,
+    description: data.description,
+    text: `${finding.lines.length} ${finding.kind} line${finding.lines.length === 1 ? '' : 's'} found; noise of one point ${noise}; a line must stand ${finding.threshold_sigma}σ out (${level}); typical FWHM ${fixed(finding.fwhm_estimate, digits)} ${unit}.${finding.dropped.length ? ` ${finding.dropped.length} left out by profile.drop.` : ''}`,
+    chart: chart.svg,
+    caption: title,
+    unit,
+    rows: finding.lines.map((l, i) => ({
+      number: i + 1,
+      centre: fixed(l.centre, digits + 1),
+      sigma: fixed(l.centre_sigma, digits + 1),
+      fwhm: fixed(l.fwhm, digits),
+      strength: absorb ? `${fixed(100 * l.amplitude, 1)} %` : fixed(100 * l.relative, 1),
+      snr: fixed(l.snr, 0),
+      origin: l.origin === 'added' ? 'profile.add' : 'found',
+      assigned: assigned.get(i) ?? '—',
+    })),
+    strengthTitle: absorb ? 'Depth' : 'Relative area (%)',
+  };
 }
 
 export async function sessionPageModel(
@@ -204,6 +278,8 @@ export async function sessionPageModel(
       ? await renderChart(scanChart(scanTitle, found.scan, found.z), cache)
       : null;
 
+  const profile = await profileBlock(input, cache);
+
   const resultLine = new Map(result.lines.map((l) => [l.index, l]));
   const o = result.reference_origins;
   const referenceOrigins = `${o.read} read from their sources, ${o.memory} recalled (memory)${o.computed ? `, ${o.computed} computed` : ''}${o.mixed ? `, ${o.mixed} blend${o.mixed === 1 ? '' : 's'} of read and recalled rows` : ''}`;
@@ -250,6 +326,7 @@ export async function sessionPageModel(
     shiftTitle,
     showVelocity: velocityMatters(kind),
     calibration,
+    profile,
     charts: {
       spectrum: spectrum.svg,
       residuals: residuals?.svg ?? null,

@@ -11,6 +11,7 @@ import { PAGE_CSP } from './csp.js';
 import { linesCsv } from './csv.js';
 import { display, percent } from './format.js';
 import { renderNotes } from './notes.js';
+import { profileCopyName } from './profileCopy.js';
 import { buildResult } from './result.js';
 import { sessionPageModel } from './sessionPage.js';
 import { STRIP_RANGE_NM, type StripLine, speciesColours, stripSvg, swatchSvg } from './strip.js';
@@ -20,6 +21,8 @@ import { plainProblem } from './wording.js';
 export interface SiteFile {
   path: string;
   contents: string;
+  /** base64: `contents` holds binary bytes (a FITS profile), so a unit stays plain JSON. */
+  encoding?: 'base64';
 }
 
 export interface SiteSettings {
@@ -129,6 +132,8 @@ export async function renderSessionPart(
   text: string,
   ctx: RenderContext,
   cache: ChartCache = new Map(),
+  /** The profile file the session names, copied beside session.yaml so the record is whole. */
+  profileBytes: Uint8Array | null = null,
 ): Promise<SessionPart> {
   const { catalog, templates } = ctx;
   const fileName = baseName(outcome.file);
@@ -170,6 +175,14 @@ export async function renderSessionPart(
     { path: `${dir}/lines.csv`, contents: linesCsv(result) },
     { path: `${dir}/session.yaml`, contents: text },
   ];
+  if (profileBytes && session.profile)
+    files.push({
+      path: `${dir}/${profileCopyName(session.profile.file)}`,
+      contents: Buffer.from(profileBytes.buffer, profileBytes.byteOffset, profileBytes.byteLength).toString(
+        'base64',
+      ),
+      encoding: 'base64',
+    });
   return {
     files,
     overview: identification.explanation.species.map((s) => ({ session: session.id, species: s })),

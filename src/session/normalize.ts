@@ -124,7 +124,30 @@ export function normalizeSession(
   }
   const calibration = readCalibration(m.calibration, method, problem, source);
 
-  const lines: RawLine[] = doc.lines.map((line, index) =>
+  if (doc.lines === undefined && doc.profile === undefined)
+    problem(
+      [],
+      'missing-key',
+      'the session has neither lines: nor a profile:',
+      'list the measured lines under lines:, or name a recorded profile under profile: { file: … }',
+    );
+  if (doc.lines !== undefined && doc.profile !== undefined)
+    problem(
+      ['profile'],
+      'conflicting-keys',
+      'give lines: or a profile:, not both',
+      'with a profile, add a line the finder missed under profile.add and drop one under profile.drop',
+      true,
+    );
+  if (doc.profile !== undefined && method !== 'pixel' && method !== 'wavelength')
+    problem(
+      ['profile'],
+      'invalid-value',
+      `a profile's lines are pixel or wavelength positions, not readings of method ${method}`,
+      'use method: pixel (a camera profile, with a calibration) or method: wavelength',
+      true,
+    );
+  const lines: RawLine[] = (doc.lines ?? []).map((line, index) =>
     readLine(line, index, method, doc, source, problem),
   );
   for (const line of lines) {
@@ -229,6 +252,7 @@ export function normalizeSession(
     barycentric,
     measurement,
     lines,
+    profile: null,
     notes: doc.notes ?? '',
     input_sha256: createHash('sha256').update(bytes).digest('hex'),
     field_positions: fieldPositions(doc, source),

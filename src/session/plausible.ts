@@ -110,7 +110,7 @@ export function checkWavelengths(doc: SessionDocument, problem: Problem): void {
         `check the number and measurement.unit (${unit})`,
       );
   };
-  for (const [i, l] of doc.lines.entries()) check(l.wavelength, ['lines', i, 'wavelength']);
+  for (const [i, l] of (doc.lines ?? []).entries()) check(l.wavelength, ['lines', i, 'wavelength']);
   for (const [i, l] of (doc.measurement?.calibration?.lines ?? []).entries())
     check(l.wavelength, ['measurement', 'calibration', 'lines', i, 'wavelength']);
 }

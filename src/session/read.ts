@@ -6,6 +6,8 @@
 import { compareDiagnostics, type Diagnostic, type Outcome, type SourcePosition } from '../diagnostics.js';
 import { isReservedId, SESSION_LIMITS, type SessionLimits } from './limits.js';
 import { normalizeSession, sessionIdFromFileName } from './normalize.js';
+import { attachProfile } from './profile/attach.js';
+import type { ProfileInput } from './profile/types.js';
 import { overlaps, pruneProblems } from './prune.js';
 import type { InstrumentSpec, Session } from './types.js';
 import { isSessionDocument, validateDocument } from './validate.js';
@@ -20,6 +22,8 @@ export interface ReadOptions {
   limits?: Partial<ReadLimits>;
   /** The project's default instrument (lineledger.yaml), used where the session gives none. */
   instrumentDefaults?: InstrumentSpec | null;
+  /** The profile file the session names, as the edge read it (see profileFileOf). */
+  profile?: ProfileInput | null;
 }
 
 /** The default id for a file name: safe as a folder name on every system (`con` → `con-session`). */
@@ -249,6 +253,18 @@ export function readSessionText(
     return { ok: false, diagnostics: all };
   }
   const warnings = [...normalized.diagnostics];
+  let session = normalized.session;
+  if (document.profile !== undefined) {
+    const attached = attachProfile(
+      session,
+      { ...document, profile: document.profile },
+      source,
+      options.profile,
+    );
+    if (!attached.session) return { ok: false, diagnostics: attached.diagnostics };
+    session = attached.session;
+    warnings.push(...attached.diagnostics);
+  }
   // A name without a letter or digit an id can hold: the id is made up, so say which.
   if (document.id === undefined && /^session-[0-9a-f]{8}$/.test(named.id ?? ''))
     warnings.unshift({
@@ -261,5 +277,5 @@ export function readSessionText(
       message: `the file name has no letters or digits an id can hold, so this session's id is ${named.id}`,
       hint: `add id: ${named.id} (or one of your own) to keep it`,
     });
-  return { ok: true, value: normalized.session, warnings };
+  return { ok: true, value: session, warnings };
 }

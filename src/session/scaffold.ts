@@ -11,8 +11,12 @@ import { isAbsolute, relative, sep } from 'node:path';
 import { impossibleDate } from './plausible.js';
 import type { MeasurementMethod } from './types.js';
 
+/** What `lineledger new --method` offers: each measurement method, and a recorded profile. */
+export const TEMPLATE_KINDS = ['wavelength', 'grating-angle', 'screen', 'pixel', 'profile'] as const;
+export type TemplateKind = MeasurementMethod | 'profile';
+
 export interface ScaffoldInput {
-  method: MeasurementMethod;
+  method: TemplateKind;
   /** ISO date (YYYY-MM-DD) written as the session date: the file name's, else the day it is created. */
   date: string;
   id: string;
@@ -96,11 +100,29 @@ const LINE: Record<MeasurementMethod, { entry: string; what: string }> = {
   pixel: { entry: 'pixel: ~', what: 'pixel column of the line' },
 };
 
+/** A camera profile: pixel calibration as for method pixel, and the profile instead of lines. */
+const PROFILE = `profile:
+  file: ~                     # FILL IN: the profile beside this file: CSV/TSV (pixel, intensity[, uncertainty]) or 1-D FITS
+  # kind: emission            # emission peaks or absorption dips (absorption is the default for stars)
+  # threshold: 5              # how many times the noise a line must stand out
+  # add: [812.5]              # pixel positions of lines the finder missed (fitted there)
+  # drop: [1033]              # pixel positions of found lines to leave out (a cosmic-ray spike)
+# For a profile saved in wavelengths (or a FITS spectrum with CTYPE1 WAVE/AWAV), use
+# measurement: { method: wavelength, unit: nm } instead, without calibration.
+`;
+
 export function sessionTemplate(input: ScaffoldInput): string {
-  const line = LINE[input.method];
+  const method: MeasurementMethod = input.method === 'profile' ? 'pixel' : input.method;
+  const line = LINE[method];
   const entries = [0, 1, 2]
     .map((i) => `  - { ${line.entry}, intensity: medium }${i === 0 ? `   # FILL IN: ${line.what}` : ''}`)
     .join('\n');
+  const measurement =
+    input.method === 'profile' ? MEASUREMENT.pixel.replace(/ {2}sigma: ~ .*\n/, '') : MEASUREMENT[method];
+  const body =
+    input.method === 'profile'
+      ? PROFILE
+      : `lines:                        # one entry per line seen; add or delete entries\n${entries}\n`;
   return `# yaml-language-server: $schema=${input.schemaRef}
 # A new lineledger session (method: ${input.method}).
 # Replace every ~ marked FILL IN with your value; \`lineledger vet\` lists the ones still empty.
@@ -120,9 +142,7 @@ instrument:
   # range_nm: [400, 700]      # the wavelengths the set-up could see
 medium: air                   # air or vacuum: what the wavelengths refer to (air for bench work)
 # candidates: { groups: [discharge-gases] }   # narrow the species considered
-${MEASUREMENT[input.method]}lines:                        # one entry per line seen; add or delete entries
-${entries}
-# notes: |
+${measurement}${body}# notes: |
 #   How the run went, in Markdown.
 `;
 }

@@ -255,6 +255,47 @@ const Line = Type.Object(
   { ...Strict, description: 'One measured line' },
 );
 
+/**
+ * A recorded spectrum beside the session: its lines are found automatically (reduce stage),
+ * and `add` / `drop` record what the observer decided about them.
+ */
+const Profile = Type.Object(
+  {
+    file: Type.String({
+      minLength: 1,
+      maxLength: 300,
+      description:
+        'The profile file, relative to this session file and inside its folder: CSV/TSV columns (position, intensity, optional uncertainty) or a 1-D FITS spectrum',
+      'x-expect': 'a file name beside the session, such as tube-c.csv',
+    }),
+    kind: Type.Optional(
+      words(LINE_KINDS, 'Look for emission peaks or absorption dips (default: absorption for stars)'),
+    ),
+    threshold: Type.Optional(
+      Type.Number({
+        minimum: 2,
+        maximum: 1000,
+        description: 'Detection threshold in units of the noise estimated from the profile (default 5)',
+      }),
+    ),
+    add: Type.Optional(
+      Type.Array(Type.Number(), {
+        maxItems: 500,
+        description:
+          'Positions (pixel, or wavelength in measurement.unit) of lines the finder missed; each is fitted there',
+      }),
+    ),
+    drop: Type.Optional(
+      Type.Array(Type.Number(), {
+        maxItems: 500,
+        description:
+          'Positions of found lines to leave out (a cosmic-ray spike, a ghost): the found line nearest each, within its FWHM',
+      }),
+    ),
+  },
+  { ...Strict, description: 'Find the lines in a recorded profile instead of listing them' },
+);
+
 export const SessionSchema = Type.Object(
   {
     $schema: Type.Optional(Type.String()),
@@ -279,11 +320,14 @@ export const SessionSchema = Type.Object(
     lines_listed: Type.Optional(
       words(LINES_LISTED, 'Whether the lines below are every line seen (all-seen) or a selection'),
     ),
-    lines: Type.Array(Line, {
-      minItems: 1,
-      maxItems: SESSION_LIMITS.maxLines,
-      description: 'The measured lines',
-    }),
+    profile: Type.Optional(Profile),
+    lines: Type.Optional(
+      Type.Array(Line, {
+        minItems: 1,
+        maxItems: SESSION_LIMITS.maxLines,
+        description: 'The measured lines (or give a profile: and let its lines be found)',
+      }),
+    ),
     notes: Type.Optional(Type.String({ maxLength: 100_000, description: 'Markdown' })),
   },
   {
@@ -294,7 +338,8 @@ export const SessionSchema = Type.Object(
 );
 
 export type SessionDocument = Static<typeof SessionSchema>;
-export type LineDocument = SessionDocument['lines'][number];
+export type LineDocument = NonNullable<SessionDocument['lines']>[number];
+export type ProfileDocument = NonNullable<SessionDocument['profile']>;
 
 /** The JSON Schema document we publish (draft 2020-12 compatible subset, plain JSON). */
 export function sessionJsonSchema(): Record<string, unknown> {

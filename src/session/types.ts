@@ -1,5 +1,6 @@
 /** The typed, normalised session that every later stage receives. */
 import type { SourcePosition } from '../diagnostics.js';
+import type { ProfileData } from './profile/types.js';
 import type {
   LINE_KINDS,
   LINES_LISTED,
@@ -87,6 +88,22 @@ export interface RawLine {
   label: string | null;
 }
 
+/** A profile named by the session, read and checked, with what the observer decided. */
+export interface SessionProfile {
+  /** The file name as the session writes it (relative to the session). */
+  file: string;
+  data: ProfileData;
+  kind: LineKind;
+  /** Hex SHA-256 of the profile file's bytes, for provenance. */
+  sha256: string;
+  /** Detection threshold in units of the estimated noise. */
+  threshold_sigma: number;
+  /** Positions in the axis unit of the session (px, or measurement.unit). */
+  add: number[];
+  drop: number[];
+  position: SourcePosition;
+}
+
 export interface InstrumentSpec {
   description: string | null;
   resolution_nm: number | null;
@@ -111,7 +128,10 @@ export interface Session {
   shift: ShiftRequest;
   barycentric: BarycentricRequest | null;
   measurement: MeasurementSpec;
+  /** Typed lines; with a profile these are empty until the reduce stage finds them. */
   lines: RawLine[];
+  /** A recorded spectrum whose lines are to be found (null when lines are typed). */
+  profile: SessionProfile | null;
   notes: string;
   /** Hex SHA-256 of the file's bytes, for provenance. */
   input_sha256: string;

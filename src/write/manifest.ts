@@ -24,7 +24,12 @@ export interface Manifest {
   files: Record<string, ManifestEntry>;
 }
 
-export function contentHash(contents: string): string {
+/** The bytes a site file holds on disk (base64 contents are binary, such as a FITS profile). */
+export function siteFileData(f: { contents: string; encoding?: 'base64' }): string | Buffer {
+  return f.encoding === 'base64' ? Buffer.from(f.contents, 'base64') : f.contents;
+}
+
+export function contentHash(contents: string | Uint8Array): string {
   return createHash('sha256').update(contents).digest('hex');
 }
 

@@ -18,7 +18,7 @@ import {
 } from 'node:fs';
 import { dirname, relative, resolve } from 'node:path';
 import type { SiteFile } from '../report/site.js';
-import { contentHash, listFiles } from './manifest.js';
+import { contentHash, listFiles, siteFileData } from './manifest.js';
 import { cleanLeftovers, previousName, recoverInterruptedSwap, stagingName, swapIn } from './swap.js';
 
 export function safeJoin(root: string, path: string): string {
@@ -64,10 +64,11 @@ export interface Staging {
   abort(): void;
 }
 
-function writeDurably(path: string, contents: string, durable: boolean): void {
+function writeDurably(path: string, contents: string | Uint8Array, durable: boolean): void {
   const fd = openSync(path, 'w');
   try {
-    writeSync(fd, contents);
+    if (typeof contents === 'string') writeSync(fd, contents);
+    else for (let at = 0; at < contents.length; ) at += writeSync(fd, contents, at, contents.length - at);
     if (durable) fsyncSync(fd);
   } finally {
     closeSync(fd);
@@ -133,7 +134,8 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
   const writeFiles = (files: readonly SiteFile[]) => {
     for (const f of files) {
       safeJoin(dir, f.path);
-      const sha = hashing ? contentHash(f.contents) : '';
+      const data = siteFileData(f);
+      const sha = hashing ? contentHash(data) : '';
       if (hashes.has(f.path)) throw new Error(`the site has two files at ${f.path}`);
       hashes.set(f.path, sha);
       if (sha !== '' && reuse.get(f.path) === sha) {
@@ -143,7 +145,7 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
       }
       changed = true;
       flush();
-      writeDurably(target(f.path), f.contents, durable);
+      writeDurably(target(f.path), data, durable);
     }
   };
   return {

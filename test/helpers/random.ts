@@ -25,3 +25,23 @@ export function gaussianDeviate(uniform: () => number): number {
 export function gaussian(uniform: () => number): () => number {
   return () => gaussianDeviate(uniform);
 }
+
+/**
+ * One Poisson deviate of the given mean: Knuth's multiplication method below 30 (Knuth, TAOCP
+ * vol. 2, §3.4.1), the normal approximation rounded to an integer above (its variance is the
+ * mean to well under 1 % there; common practice).
+ */
+export function poissonDeviate(uniform: () => number, mean: number): number {
+  if (!(mean > 0)) return 0;
+  if (mean < 30) {
+    const limit = Math.exp(-mean);
+    let k = 0;
+    let p = uniform();
+    while (p > limit) {
+      k++;
+      p *= uniform();
+    }
+    return k;
+  }
+  return Math.max(0, Math.round(mean + Math.sqrt(mean) * gaussianDeviate(uniform)));
+}
