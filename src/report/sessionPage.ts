@@ -85,10 +85,13 @@ async function profileBlock(
   const threshold = finding.continuum.map((c) =>
     absorb ? c * (1 - finding.threshold) : c + finding.threshold,
   );
-  const noise = absorb ? `${fixed(100 * finding.noise, 2)} % of the continuum` : `${fixed(finding.noise, 3)}`;
+  const noise = absorb
+    ? `${fixed(100 * finding.noise, 2)} % of the continuum`
+    : `${fixed(finding.noise, 3)} in the profile's intensity units`;
+  // What a line needs to be counted: its height (or depth) and that as a multiple of the noise.
   const level = absorb
-    ? `${fixed(100 * finding.threshold, 2)} % deep`
-    : `${fixed(finding.threshold, 3)} above the continuum`;
+    ? `dip at least ${fixed(100 * finding.threshold, 2)} % below the continuum (${finding.threshold_sigma} times the noise)`
+    : `rise at least ${fixed(finding.threshold, 3)} above the continuum (${finding.threshold_sigma} times the noise)`;
   const title = `The recorded profile ${spec.file} (black) with its continuum (dashed blue), the detection threshold (dotted orange, ${finding.threshold_sigma}σ) and the ${finding.lines.length} lines found, numbered as in the tables and coloured by their assignment${finding.dropped.length ? '; lines left out by profile.drop in grey' : ''}.`;
   const chart = await renderChart(
     profileChart({
@@ -115,7 +118,7 @@ async function profileBlock(
     copy: profileCopyName(spec.file),
     sha256: spec.sha256,
     description: data.description,
-    text: `${finding.lines.length} ${finding.kind} line${finding.lines.length === 1 ? '' : 's'} found; noise of one point ${noise}; a line must stand ${finding.threshold_sigma}σ out (${level}); typical FWHM ${fixed(finding.fwhm_estimate, digits)} ${unit}.${finding.dropped.length ? ` ${finding.dropped.length} left out by profile.drop.` : ''}`,
+    text: `${finding.lines.length} ${finding.kind} line${finding.lines.length === 1 ? '' : 's'} found; noise per point ${noise}; a line must ${level}; typical FWHM ${fixed(finding.fwhm_estimate, digits)} ${unit}.${finding.dropped.length ? ` ${finding.dropped.length} left out by profile.drop.` : ''}`,
     chart: chart.svg,
     caption: title,
     unit,

@@ -15,20 +15,29 @@ function toAxis(session: Session, v: number): number {
 
 const round = (v: number, digits: number) => Number(v.toFixed(digits));
 
+/**
+ * Decimals that keep a reading one digit beyond its σ's first significant digit: the rounding
+ * error (at most a twentieth of σ) is lost in σ, and the record shows no false precision.
+ */
+function decimalsFor(sigma: number): number {
+  if (!(sigma > 0) || !Number.isFinite(sigma)) return 6;
+  return Math.min(6, Math.max(0, Math.ceil(-Math.log10(sigma)) + 1));
+}
+
 function rawLine(session: Session, profile: SessionProfile, l: FoundLine, index: number): RawLine {
   const pixel = session.measurement.method === 'pixel';
   const perUnit = NM_PER_UNIT[session.measurement.unit];
   return {
     index,
     position: profile.position,
-    // Rounded far below their σ, so the record's readings stay legible.
-    wavelength: pixel ? null : round(l.centre / perUnit, 6),
+    // Rounded below their σ, so the record's readings stay legible.
+    wavelength: pixel ? null : round(l.centre / perUnit, decimalsFor(l.centre_sigma / perUnit)),
     angle_deg: null,
     angle_left_deg: null,
     angle_right_deg: null,
     offset_mm: null,
     separation_mm: null,
-    pixel: pixel ? round(l.centre, 3) : null,
+    pixel: pixel ? round(l.centre, decimalsFor(l.centre_sigma)) : null,
     sigma: pixel ? l.centre_sigma : l.centre_sigma / perUnit,
     order: null,
     same_as: null,
