@@ -9,20 +9,9 @@
  */
 
 import { MAX_PROFILE_POINTS } from './check.js';
-import { type FitsValue, parseFitsHeader } from './fitsHeader.js';
+import { type FitsValue, NM_PER_FITS_UNIT, parseFitsHeader } from './fitsHeader.js';
 import { parseFitsTable } from './fitsTable.js';
 import type { ProfileParse, ProfileProblem } from './types.js';
-
-/** Units of a wavelength axis CUNIT1 may give (§4.3, Table 26 of the Standard), in nm. */
-const NM_PER_FITS_UNIT: Record<string, number> = {
-  m: 1e9,
-  cm: 1e7,
-  mm: 1e6,
-  um: 1e3,
-  nm: 1,
-  Angstrom: 0.1,
-  angstrom: 0.1,
-};
 
 function problem(message: string, hint: string): ProfileParse {
   return { ok: false, problems: [{ code: 'profile-fits', message, hint }] satisfies ProfileProblem[] };

@@ -92,3 +92,14 @@ export function parseFitsHeader(bytes: Uint8Array, start = 0): HeaderParse {
   }
   return { ok: false, message: 'the header has no END record: the file is cut short or not FITS' };
 }
+
+/** Units of a wavelength axis CUNIT1 may give (§4.3, Table 26 of the Standard), in nm. */
+export const NM_PER_FITS_UNIT: Record<string, number> = {
+  m: 1e9,
+  cm: 1e7,
+  mm: 1e6,
+  um: 1e3,
+  nm: 1,
+  Angstrom: 0.1,
+  angstrom: 0.1,
+};

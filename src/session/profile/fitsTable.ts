@@ -11,7 +11,7 @@
  */
 
 import { MAX_PROFILE_POINTS } from './check.js';
-import { type FitsValue, parseFitsHeader } from './fitsHeader.js';
+import { type FitsValue, NM_PER_FITS_UNIT, parseFitsHeader } from './fitsHeader.js';
 import type { ProfileParse } from './types.js';
 
 /** Bytes per element of each TFORM type letter (§7.3.3.1, Table 18); X is bits. */
@@ -31,16 +31,6 @@ const TYPE_BYTES: Record<string, number> = {
   Q: 16,
 };
 const NUMERIC = new Set(['B', 'I', 'J', 'K', 'E', 'D']);
-
-const NM_PER_UNIT: Record<string, number> = {
-  m: 1e9,
-  cm: 1e7,
-  mm: 1e6,
-  um: 1e3,
-  nm: 1,
-  Angstrom: 0.1,
-  angstrom: 0.1,
-};
 
 interface Column {
   name: string;
@@ -130,7 +120,7 @@ export function parseFitsTable(bytes: Uint8Array, start: number, name: string): 
       `${name}: the table has no numeric WAVE (or WAVELENGTH, LAMBDA) and FLUX (or INTENSITY, COUNTS) columns`,
       'name the columns so, or save the spectrum as CSV',
     );
-  const nmPer = wave.unit === null ? undefined : NM_PER_UNIT[wave.unit];
+  const nmPer = wave.unit === null ? undefined : NM_PER_FITS_UNIT[wave.unit];
   if (nmPer === undefined)
     return fail(
       `${name}: the wavelength column's unit (TUNIT) is ${wave.unit ?? 'not given'}`,
