@@ -16,6 +16,7 @@ import {
   statSync,
 } from 'node:fs';
 import { basename, dirname, extname, isAbsolute, join, relative, resolve, sep } from 'node:path';
+import { PROFILE_COPY } from '../report/profileCopy.js';
 
 export type TargetRole = 'output' | 'cache';
 
@@ -149,7 +150,7 @@ export function gitRootOf(dir: string): string | null {
   }
 }
 
-/** Files a site holds: what the build writes, and the records --pdf prints into it. */
+/** Files a site holds: what the build writes, and the records --pdf prints into it (and profile copies, PROFILE_COPY). */
 const SITE_FILE = new Set(['.html', '.css', '.csv', '.json', '.svg', '.yaml', '.pdf']);
 const GENERATOR = /<meta name="generator" content="lineledger[ "]/;
 
@@ -192,7 +193,10 @@ function looksLikeOurSite(dir: string, manifestFiles: ReadonlySet<string> | null
   const files = walkFiles(dir, 1_000_000);
   if (files === null) return false;
   return files.every(
-    (f) => manifestFiles?.has(f) || (SITE_FILE.has(extname(f).toLowerCase()) && !f.startsWith('.')),
+    (f) =>
+      manifestFiles?.has(f) ||
+      (SITE_FILE.has(extname(f).toLowerCase()) && !f.startsWith('.')) ||
+      PROFILE_COPY.test(f),
   );
 }
 
