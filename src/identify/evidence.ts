@@ -135,6 +135,7 @@ export function evaluateSpecies(
       q: chosen.q,
       missCost: chosen.missCost,
       threshold: chosen.threshold,
+      flat: ctx.flatIntensities,
     },
   };
 }
