@@ -226,8 +226,6 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
 
   const trustedCtx: EvidenceContext = {
     ...ctx,
-    missWeight: missWeight(priors.linesListed, false),
-    strongMissWeight: strongMissWeight(priors.linesListed, false),
     flatIntensities: false,
   };
 
