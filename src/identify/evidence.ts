@@ -29,9 +29,13 @@ export interface EvidenceContext {
 
 const MAX_THRESHOLDS = 14;
 
-/** Candidate detection limits: distinct intensities, thinned to at most MAX_THRESHOLDS, plus "none strong". */
+/**
+ * Candidate detection limits: distinct intensities, thinned to at most MAX_THRESHOLDS, plus "none
+ * strong". Strength 0 (a line a condition table does not list, prepare.ts conditionLines) is
+ * never a limit: such a line is weaker than every listed one, so it is never counted strong.
+ */
 function thresholdCandidates(refs: readonly RefLine[]): number[] {
-  const distinct = [...new Set(refs.map((r) => r.intensity))].sort((a, b) => b - a);
+  const distinct = [...new Set(refs.map((r) => r.intensity))].filter((v) => v > 0).sort((a, b) => b - a);
   const picks: number[] = [];
   const step = Math.max(1, distinct.length / MAX_THRESHOLDS);
   for (let x = 0; x < distinct.length; x += step) picks.push(distinct[Math.floor(x)] as number);
@@ -135,6 +139,7 @@ export function evaluateSpecies(
       q: chosen.q,
       missCost: chosen.missCost,
       threshold: chosen.threshold,
+      flat: ctx.flatIntensities,
     },
   };
 }

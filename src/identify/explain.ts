@@ -76,7 +76,7 @@ export function scoreSet(
     ranks += rankTerm(
       matches.filter((m) => m.ref.species === s),
       ctx.intensities,
-      ctx.flatIntensities,
+      prepared.get(s)?.flat ?? ctx.flatIntensities,
     ).term;
   let penalty = 0;
   for (const sp of set) penalty += penaltyOf(sp);

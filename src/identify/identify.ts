@@ -27,7 +27,7 @@ import {
   WINDOW_SIGMAS,
 } from './model.js';
 import { displayName } from './notation.js';
-import { refsInRange } from './prepare.js';
+import { conditionLines, refsInRange } from './prepare.js';
 import { priorPenalty, sessionPriors } from './priors.js';
 import { applyReadingOffset, describeReadingOffset, fitReadingOffset } from './scaleOffset.js';
 import { searchShift } from './shiftSearch.js';
@@ -224,6 +224,11 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     flatIntensities: flat,
   };
 
+  const trustedCtx: EvidenceContext = {
+    ...ctx,
+    flatIntensities: false,
+  };
+
   const prepared = new Map<string, PreparedSpecies>();
   const evidence: SpeciesEvidence[] = [];
   for (const name of pool) {
@@ -232,12 +237,16 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     const telluric = isTelluric(catalog, name);
     // Telluric lines arise in the observer's frame: compare them at observed wavelengths.
     const scale = telluric ? 1 / (1 + z) : 1;
-    const refs = refsInRange(lines, range[0] / scale, range[1] / scale, fwhm / scale, {
+    // A species the source's condition table gives strengths for is weighed by them, as a
+    // source whose intensities hold; any other keeps the lab column under the kind's trust.
+    const condition = conditionLines(lines, priors.intensities);
+    const own = condition === lines ? ctx : trustedCtx;
+    const refs = refsInRange(condition, range[0] / scale, range[1] / scale, fwhm / scale, {
       points: Float64Array.from(points, (p) => p.vacuum_nm / scale),
       halfWidth_nm: (WINDOW_SIGMAS * pairSigma(medianSigma, 0, fwhm)) / scale,
     }).map((r) => (scale === 1 ? r : { ...r, vacuum_nm: r.vacuum_nm * scale }));
     if (refs.length === 0) continue;
-    const result = evaluateSpecies(name, refs, ctx, telluric);
+    const result = evaluateSpecies(name, refs, own, telluric);
     prepared.set(name, result.prepared);
     evidence.push(result.evidence);
   }

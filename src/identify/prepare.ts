@@ -6,7 +6,7 @@
  * each can be matched (a stated resolution can be too pessimistic; warnings.ts says so).
  */
 import { lowerBound, windowRange } from '../lines/search.js';
-import type { SpeciesLines } from '../lines/types.js';
+import type { IntensityCondition, SpeciesLines } from '../lines/types.js';
 import type { RefLine } from './types.js';
 
 export interface ResolvedBy {
@@ -77,4 +77,18 @@ export function refsInRange(
   }
   flush();
   return out;
+}
+
+/**
+ * The species' lines with the intensity column replaced by a condition's strengths
+ * (data/lines/conditions.tsv), or the lines as they are when the condition is the lab's or
+ * the table gives this species none. A line the table is silent on gets strength 0: the
+ * tables list each species' strong lines under that condition, so an unlisted line is weaker
+ * than every listed one (docs/catalog.md).
+ */
+export function conditionLines(lines: SpeciesLines, condition: IntensityCondition): SpeciesLines {
+  if (condition === 'lab') return lines;
+  const values = lines.strengths.get(condition);
+  if (!values) return lines;
+  return { ...lines, intensity: Float64Array.from(values, (v) => (Number.isFinite(v) ? v : 0)) };
 }

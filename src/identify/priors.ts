@@ -4,7 +4,7 @@
  * a named one is weighed by its log prior odds. Also what the list is (all seen or a
  * selection) and whether the catalog's intensities can be trusted for this source.
  */
-import type { Catalog, PriorEntry, SourcePriorSet } from '../lines/types.js';
+import type { Catalog, IntensityCondition, PriorEntry, SourcePriorSet } from '../lines/types.js';
 import type { Session } from '../session/types.js';
 
 export interface SessionPriors {
@@ -14,6 +14,12 @@ export interface SessionPriors {
   /** Whether linesListed came from the session itself (else the kind's default). */
   linesListedStated: boolean;
   labIntensities: 'trust' | 'distrust';
+  /**
+   * Whose strengths this source shows: a condition of data/lines/conditions.tsv is used for the
+   * species it gives strengths for; every other species falls back to the lab column, weighed
+   * as labIntensities says.
+   */
+  intensities: IntensityCondition;
 }
 
 /** Entries of one set, per species: a species named on its own beats a group naming it. */
@@ -38,6 +44,7 @@ export function sessionPriors(session: Session, catalog: Catalog): SessionPriors
     linesListed: session.lines_listed ?? cls?.lines_listed ?? kind?.lines_listed ?? 'all-seen',
     linesListedStated: session.lines_listed !== null,
     labIntensities: cls?.lab_intensities ?? kind?.lab_intensities ?? 'trust',
+    intensities: cls?.intensities ?? kind?.intensities ?? 'lab',
   };
 }
 

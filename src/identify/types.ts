@@ -21,6 +21,8 @@ export interface PreparedSpecies {
   /** Σ log(1 − q): the completeness cost paid if nothing matched. */
   missCost: number;
   threshold: number;
+  /** Whether this species' intensities were distrusted (flat detection, no rank term). */
+  flat: boolean;
 }
 
 export interface Match {

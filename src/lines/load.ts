@@ -4,7 +4,7 @@ import { basename, dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Outcome } from '../diagnostics.js';
 import { type CatalogInput, parseCatalog } from './parse.js';
-import type { Catalog } from './types.js';
+import type { Catalog, CatalogFile } from './types.js';
 
 /** The package's own data/ folder, found from this module's location (src/ or dist/). */
 export function bundledDataDir(): string {
@@ -17,13 +17,17 @@ export interface ExtraCatalog {
   sources: string;
 }
 
+/** Line strengths by condition (src/lines/conditions.ts), beside the line lists. */
+export const CONDITIONS_FILE = 'conditions.tsv';
+
 export function readCatalogInput(
   dataDir: string = bundledDataDir(),
   extras: readonly ExtraCatalog[] = [],
 ): CatalogInput {
   const linesDir = join(dataDir, 'lines');
+  // conditions.tsv is not a line list: it gives strengths for lines the line lists hold.
   const names = readdirSync(linesDir)
-    .filter((n) => n.endsWith('.tsv'))
+    .filter((n) => n.endsWith('.tsv') && n !== CONDITIONS_FILE)
     .sort();
   const read = (path: string, name: string) => ({ name, text: readFileSync(path, 'utf8') });
   let groupsYaml: CatalogInput['groupsYaml'] = null;
@@ -38,6 +42,12 @@ export function readCatalogInput(
   } catch {
     priorsYaml = null;
   }
+  let conditionFiles: CatalogFile[] = [];
+  try {
+    conditionFiles = [read(join(linesDir, CONDITIONS_FILE), CONDITIONS_FILE)];
+  } catch {
+    conditionFiles = [];
+  }
   return {
     version: readFileSync(join(linesDir, 'VERSION'), 'utf8'),
     lineFiles: [
@@ -50,6 +60,7 @@ export function readCatalogInput(
     ],
     groupsYaml,
     priorsYaml,
+    conditionFiles,
   };
 }
 

@@ -5,6 +5,7 @@
 import { createHash } from 'node:crypto';
 import { parse as parseYaml } from 'yaml';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
+import { type ConditionRow, joinConditions, parseConditionFile } from './conditions.js';
 import { EMPTY_PRIORS, parsePriors } from './priors.js';
 import {
   type CandidateGroup,
@@ -47,11 +48,15 @@ export interface CatalogInput {
   groupsYaml: CatalogFile | null;
   /** data/priors.yaml (species priors by source), when present. */
   priorsYaml?: CatalogFile | null;
+  /** data/lines/conditions.tsv (line strengths by condition), when present. */
+  conditionFiles?: CatalogFile[];
 }
 
 export function catalogSha256(input: CatalogInput): string {
   const hash = createHash('sha256');
-  const files = [...input.lineFiles].sort((a, b) => (a.name < b.name ? -1 : 1));
+  const files = [...input.lineFiles, ...(input.conditionFiles ?? [])].sort((a, b) =>
+    a.name < b.name ? -1 : 1,
+  );
   for (const f of [...files, ...input.sourceFiles]) hash.update(`${f.name}\n`).update(f.text);
   return hash.digest('hex');
 }
@@ -77,9 +82,20 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
     list.push(row);
     bySpecies.set(row.species, list);
   }
+  for (const list of bySpecies.values()) list.sort((a, b) => a.vacuum_nm - b.vacuum_nm);
+  const conditionRows: ConditionRow[] = [];
+  for (const file of input.conditionFiles ?? [])
+    conditionRows.push(...parseConditionFile(file, sources, problem));
+  const strengths = joinConditions(
+    conditionRows,
+    (name) => {
+      const list = bySpecies.get(name);
+      return list ? Float64Array.from(list, (r) => r.vacuum_nm) : undefined;
+    },
+    problem,
+  );
   const species = new Map<string, SpeciesLines>();
   for (const [name, list] of bySpecies) {
-    list.sort((a, b) => a.vacuum_nm - b.vacuum_nm);
     species.set(name, {
       species: name,
       vacuum_nm: Float64Array.from(list, (r) => r.vacuum_nm),
@@ -90,6 +106,7 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
       source: list.map((r) => r.source),
       origin: list.map((r) => r.origin),
       row: list.map((r) => r.where),
+      strengths: strengths.get(name) ?? new Map(),
     });
   }
   const names = [...species.keys()].sort();

@@ -4,7 +4,15 @@
  * out as diagnostics (each at the entry's line and column).
  */
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type YAMLMap } from 'yaml';
-import type { CandidateGroup, CatalogFile, PriorEntry, SourcePriorSet, SourcePriors } from './types.js';
+import {
+  type CandidateGroup,
+  type CatalogFile,
+  type IntensityCondition,
+  LINE_CONDITIONS,
+  type PriorEntry,
+  type SourcePriorSet,
+  type SourcePriors,
+} from './types.js';
 
 type Problem = (file: string, line: number, col: number, field: string, message: string) => void;
 
@@ -12,6 +20,7 @@ export const EMPTY_PRIORS: SourcePriors = { kinds: new Map(), classes: new Map()
 
 const LISTED = new Set(['all-seen', 'selection']);
 const TRUST = new Set(['trust', 'distrust']);
+const INTENSITIES: ReadonlySet<string> = new Set<IntensityCondition>(['lab', ...LINE_CONDITIONS]);
 
 export function parsePriors(
   file: CatalogFile,
@@ -51,7 +60,7 @@ export function parsePriors(
     return out;
   };
   const parseSet = (node: unknown, field: string): SourcePriorSet => {
-    const set: SourcePriorSet = { lines_listed: null, lab_intensities: null, priors: [] };
+    const set: SourcePriorSet = { lines_listed: null, lab_intensities: null, intensities: null, priors: [] };
     if (node === null || node === undefined || (isScalar(node) && node.value === null)) return set;
     if (!isMap(node)) {
       fail(node, field, 'must be a map');
@@ -77,6 +86,17 @@ export function parsePriors(
           map.get('lab_intensities', true),
           `${field}.lab_intensities`,
           'lab_intensities must be trust or distrust',
+        );
+    }
+    const intensities = map.get('intensities');
+    if (intensities !== undefined) {
+      if (typeof intensities === 'string' && INTENSITIES.has(intensities))
+        set.intensities = intensities as IntensityCondition;
+      else
+        fail(
+          map.get('intensities', true),
+          `${field}.intensities`,
+          `intensities must be one of ${[...INTENSITIES].join(', ')}`,
         );
     }
     const list = map.get('priors', true);

@@ -22,7 +22,24 @@ export interface SpeciesLines {
   origin: readonly LineOrigin[];
   /** Where each row came from, for diagnostics and the record ("atomic.tsv:42"). */
   row: readonly string[];
+  /**
+   * Line strengths under other conditions than the lab discharge (data/lines/conditions.tsv),
+   * aligned with the rows above: NaN where the condition's table gives the row no strength.
+   * A condition is present only when its table names at least one line of the species.
+   */
+  strengths: ReadonlyMap<LineCondition, Float64Array>;
 }
+
+/**
+ * Conditions a line strength can be given for. `lab` is the catalog's own intensity column
+ * (discharge lamps, NIST); the others come from data/lines/conditions.tsv.
+ */
+export type LineCondition = 'flame' | 'nebular' | 'stellar-absorption';
+
+export const LINE_CONDITIONS: readonly LineCondition[] = ['flame', 'nebular', 'stellar-absorption'];
+
+/** What a session's source reads its line strengths from: the lab column or a condition's table. */
+export type IntensityCondition = 'lab' | LineCondition;
 
 export interface SourceCitation {
   key: string;
@@ -71,6 +88,8 @@ export interface PriorEntry {
 export interface SourcePriorSet {
   lines_listed: 'all-seen' | 'selection' | null;
   lab_intensities: 'trust' | 'distrust' | null;
+  /** Whose line strengths this source shows (lab, or a condition of conditions.tsv). */
+  intensities: IntensityCondition | null;
   priors: PriorEntry[];
 }
 
