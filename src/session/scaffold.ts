@@ -107,6 +107,7 @@ const PROFILE = `profile:
   # threshold: 5              # how many times the noise a line must stand out
   # add: [812.5]              # pixel positions of lines the finder missed (fitted there)
   # drop: [1033]              # pixel positions of found lines to leave out (a cosmic-ray spike)
+  # edit: [{ at: 640.2, label: "yellow", sigma: 0.3 }]   # label a found line, or give it another σ
 # For a profile saved in wavelengths (or a FITS spectrum with CTYPE1 WAVE/AWAV), use
 # measurement: { method: wavelength, unit: nm } instead, without calibration.
 `;

@@ -292,6 +292,35 @@ const Profile = Type.Object(
           'Positions of found lines to leave out (a cosmic-ray spike, a ghost): the found line nearest each, within its FWHM',
       }),
     ),
+    edit: Type.Optional(
+      Type.Array(
+        Type.Object(
+          {
+            at: Type.Number({ description: 'Position of the found line (the one nearest, within its FWHM)' }),
+            label: Type.Optional(
+              Type.String({
+                minLength: 1,
+                maxLength: 120,
+                description: 'A label for the line, as for a typed line',
+              }),
+            ),
+            sigma: Type.Optional(
+              Type.Number({
+                exclusiveMinimum: 0,
+                description:
+                  "The line's uncertainty to use instead of the fit's (pixel, or measurement.unit), e.g. for a known systematic",
+              }),
+            ),
+          },
+          Strict,
+        ),
+        {
+          maxItems: 500,
+          description:
+            'Found lines the observer labels or gives another σ: the session stays the record of what was decided',
+        },
+      ),
+    ),
   },
   { ...Strict, description: 'Find the lines in a recorded profile instead of listing them' },
 );

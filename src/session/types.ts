@@ -101,6 +101,16 @@ export interface SessionProfile {
   /** Positions in the axis unit of the session (px, or measurement.unit). */
   add: number[];
   drop: number[];
+  /** Found lines the observer labelled or gave another σ (same axis unit). */
+  edit: ProfileEdit[];
+  position: SourcePosition;
+}
+
+export interface ProfileEdit {
+  at: number;
+  label: string | null;
+  sigma: number | null;
+  /** Where the edit stands in the session file, for its warnings. */
   position: SourcePosition;
 }
 

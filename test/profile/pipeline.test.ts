@@ -79,6 +79,28 @@ describe('a camera profile through the pipeline', () => {
     expect(out.reduction.profile?.dropped.length).toBe(1);
   });
 
+  it('profile.edit labels a found line and gives it another σ; an edit that matches none warns at its own line', () => {
+    const at = px(546.074);
+    const { out } = run(
+      cameraProfile(),
+      sessionText(
+        `  edit:\n    - { at: ${at.toFixed(1)}, label: green, sigma: 0.5 }\n    - { at: 5, label: nothing there }\n`,
+      ),
+    );
+    if (!out.ok) throw new Error(JSON.stringify(out.diagnostics));
+    const green = out.reduction.lines.find((l) => l.label === 'green');
+    expect(green).toBeDefined();
+    expect(Math.abs((green?.air_nm ?? 0) - 546.074)).toBeLessThan(0.05);
+    // σ of 0.5 px through the fit's dispersion (0.12 nm/px): about 0.06 nm, far above the fit's own.
+    expect(green?.sigma_nm).toBeGreaterThan(0.05);
+    const others = out.reduction.lines.filter((l) => l !== green);
+    for (const l of others) expect(l.sigma_nm).toBeLessThan(0.05);
+    const unmatched = out.warnings.find((w) => w.code === 'profile-edit-unmatched');
+    expect(unmatched?.field).toBe('profile.edit');
+    // The second edit is line 16 of the session text (13 lines of set-up and profile.file, then edit: and the first).
+    expect(unmatched?.line).toBe(16);
+  });
+
   it('vet reports a profile whose axis doubles back, at profile.file', () => {
     const bad = `${cameraProfile()}5,100\n`;
     const { path, bytes, profile } = run(bad);

@@ -99,5 +99,29 @@ export function linesFromProfile(session: Session, profile: SessionProfile): Pro
       hint: `check kind: (emission or absorption), lower threshold:, or name the lines under add:`,
     });
   const lines = finding.lines.map((l, i) => rawLine(session, profile, l, i));
+  // profile.edit: the found line nearest each position, within its FWHM (the rule drop: uses).
+  for (const e of profile.edit) {
+    const x = toAxis(session, e.at);
+    let best = -1;
+    finding.lines.forEach((l, k) => {
+      if (best < 0 || Math.abs(l.centre - x) < Math.abs((finding.lines[best] as FoundLine).centre - x))
+        best = k;
+    });
+    const hit = best >= 0 ? (finding.lines[best] as FoundLine) : null;
+    if (!hit || Math.abs(hit.centre - x) > hit.fwhm) {
+      diagnostics.push({
+        file: session.file,
+        ...e.position,
+        severity: 'warning',
+        code: 'profile-edit-unmatched',
+        field: 'profile.edit',
+        message: `no found line lies within its FWHM of ${e.at} ${unit}; this edit changes nothing`,
+        hint: 'check the position against the lines the record lists, or remove the edit',
+      });
+      continue;
+    }
+    const line = lines[best] as RawLine;
+    lines[best] = { ...line, label: e.label ?? line.label, sigma: e.sigma ?? line.sigma };
+  }
   return { session: { ...session, lines }, finding, diagnostics };
 }

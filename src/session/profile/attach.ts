@@ -105,6 +105,12 @@ export function attachProfile(
         threshold_sigma: spec.threshold ?? DEFAULT_PROFILE_THRESHOLD,
         add: spec.add ?? [],
         drop: spec.drop ?? [],
+        edit: (spec.edit ?? []).map((e, i) => ({
+          at: e.at,
+          label: e.label ?? null,
+          sigma: e.sigma ?? null,
+          position: source.positionOf(['profile', 'edit', i]),
+        })),
         position: source.positionOf(['profile']),
       },
     },
