@@ -258,7 +258,7 @@ export function registerBuild(program: Command, done: (code: number) => void): v
     .option('-v, --verbose', 'print a line per session with its status and time')
     .option(
       '-j, --jobs <n>',
-      'threads computing sessions, this one included: a number, or auto (serial for small archives or one core)',
+      'threads computing sessions, this one included: a number, or auto (serial for small archives and on one or two cores, where a second thread costs more than it saves)',
       'auto',
     )
     .option('--no-cache', 'rebuild every session and keep no cache')
