@@ -69,6 +69,8 @@ export interface BuildOptions {
   onStart?: (total: number) => void;
   /** The build will print record.pdf files (build --pdf), so pages link them. */
   pdf?: boolean;
+  /** Sessions on a page of the index (default SESSIONS_PER_PAGE; tests page small archives). */
+  indexPageSize?: number;
 }
 
 /** What the command line needs of each session: diagnostics carry the file's full path. */
@@ -560,7 +562,7 @@ export async function buildSite(
     }
     t2 = performance.now();
     // One page at a time: a large archive's index is many pages, none held longer than needed.
-    for (const file of indexFiles(rows, overview, ctx)) staging.write([file]);
+    for (const file of indexFiles(rows, overview, ctx, options.indexPageSize)) staging.write([file]);
     t3 = performance.now();
     swapped = staging.commit();
   } catch (e) {
