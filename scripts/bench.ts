@@ -6,13 +6,25 @@
  * `node dist/cli.js build` with process start included. A render-only pass measures the
  * charts (a chart cache that times each miss from lookup to store, which is exactly one
  * renderChart call). Prints the times and the ratios of issue 14's targets; asserts nothing.
+ * `npm run bench -- --archive N` (opt-in, slow) instead builds a generated archive of N
+ * sessions (10 000 by default) with an empty cache, then rebuilds it unchanged, and prints the
+ * full build time, each build's peak memory and the no-change ratio.
  */
 
 import { spawnSync } from 'node:child_process';
-import { appendFileSync, cpSync, mkdtempSync, readFileSync, rmSync, symlinkSync } from 'node:fs';
+import {
+  appendFileSync,
+  cpSync,
+  mkdtempSync,
+  readdirSync,
+  readFileSync,
+  rmSync,
+  statSync,
+  symlinkSync,
+} from 'node:fs';
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { readTemplateTexts } from '../src/build.js';
 import { loadCatalogFor, loadConfig } from '../src/commands/common.js';
 import { autoJobs } from '../src/parallel/pool.js';
@@ -23,7 +35,11 @@ import { ChartTimer, describeTimes, quantile } from './bench-charts.js';
 import { makeArchive } from './make-archive.js';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
-const count = Number(process.argv[2] ?? process.env.BENCH_SESSIONS ?? 300);
+// `--archive N`: only the large-archive run (full build, peak memory, no-change rebuild).
+const archiveAt = process.argv.indexOf('--archive');
+const large = archiveAt >= 0 ? Number(process.argv[archiveAt + 1] ?? 10_000) : null;
+if (large !== null && !(large > 0)) throw new Error('usage: npm run bench -- --archive N');
+const count = large ?? Number(process.argv[2] ?? process.env.BENCH_SESSIONS ?? 300);
 const repeat = Math.max(1, Number(process.env.BENCH_REPEAT ?? 3));
 const work = mkdtempSync(join(tmpdir(), 'll-bench-'));
 const files = makeArchive(join(work, 'sessions'), count);
@@ -50,20 +66,30 @@ for (const shared of ['node_modules', 'data', 'templates'])
   symlinkSync(join(root, shared), join(app, shared));
 const CLI = join(app, 'dist', 'cli.js');
 
+const pct = (a: number, b: number) => `${((100 * a) / b).toFixed(1)} %`;
+
 /** Time inside each build (its own summary line), beside the wall-clock time of the process. */
 const inside: number[] = [];
+/** Peak resident set of each build's process (KiB, from its own process.resourceUsage()). */
+const peaks: number[] = [];
 
 /** Times one build as users run it: the compiled command line, in a fresh process. */
 function timed(label: string, extra: string[]): number {
   const args = [CLI, 'build', base.inputDir, '--out', base.outDir, '--config', join(root, 'lineledger.yaml')];
+  const rss = ['--import', pathToFileURL(join(root, 'scripts', 'report-rss.mjs')).href];
   const t0 = performance.now();
-  const r = spawnSync(process.execPath, [...args, '--verbose', ...extra], { encoding: 'utf8' });
+  const r = spawnSync(process.execPath, [...rss, ...args, '--verbose', ...extra], {
+    encoding: 'utf8',
+    maxBuffer: 256 * 1024 * 1024,
+  });
   const ms = performance.now() - t0;
   const summary =
     /built \d+ of \d+ sessions[^\n]*/.exec(r.stderr)?.[0] ?? `exit ${r.status}: ${r.stderr.slice(-300)}`;
   inside.push(Number(/, (\d+) ms\)/.exec(summary)?.[1] ?? Number.NaN));
+  const peak = Number(/bench-maxrss-kib (\d+)/.exec(r.stderr)?.[1] ?? Number.NaN);
+  peaks.push(peak);
   process.stdout.write(
-    `${label.padEnd(36)} ${(ms / 1000).toFixed(2).padStart(8)} s  ${summary.replace(/^built /, '')}\n`,
+    `${label.padEnd(36)} ${(ms / 1000).toFixed(2).padStart(8)} s  peak ${(peak / 1024).toFixed(0)} MiB  ${summary.replace(/^built /, '')}\n`,
   );
   return ms;
 }
@@ -82,6 +108,32 @@ process.stdout.write(
 const cacheArgs = ['--cache-dir', join(work, 'cache')];
 const full = timed('full build (cache empty, auto jobs)', cacheArgs);
 const none = timed('no-change rebuild', cacheArgs);
+if (large !== null) {
+  // The large-archive run stops here: serial against parallel and the render-only pass would
+  // take as long again each.
+  const site = base.outDir;
+  const pages = readdirSync(site).filter((n) => /^page-\d+\.html$/.test(n));
+  const sizes = pages.map((n) => statSync(join(site, n)).size);
+  const kib = (b: number) => `${(b / 1024).toFixed(0)} KiB`;
+  const manifest = join(work, 'cache', 'site-manifest.json');
+  process.stdout.write(
+    [
+      '',
+      `load after the builds: ${loadavg()
+        .map((l) => l.toFixed(1))
+        .join(' ')}`,
+      `full build:                            ${(full / 1000).toFixed(1)} s  (target ≤ 180 s for 10 000 sessions)`,
+      `peak memory of the full build:         ${((peaks[0] as number) / 1024).toFixed(0)} MiB  (target ≤ 1024 MiB)`,
+      `peak memory of the no-change rebuild:  ${((peaks[1] as number) / 1024).toFixed(0)} MiB`,
+      `no-change rebuild / full build:        ${pct(none, full)}  (target ≤ 3 %; issue 14's archive part: < 5 %)`,
+      `index.html ${kib(statSync(join(site, 'index.html')).size)}; ${pages.length} pages of sessions, ` +
+        `largest ${kib(Math.max(0, ...sizes))}; manifest ${kib(statSync(manifest).size)}`,
+      '',
+    ].join('\n'),
+  );
+  rmSync(work, { recursive: true, force: true });
+  process.exit(0);
+}
 const touchedFile = files[Math.floor(files.length / 2)] as string;
 appendFileSync(touchedFile, '# touched by the bench\n');
 const one = timed('one session touched', cacheArgs);
@@ -129,7 +181,6 @@ const charts = timer.ms.length;
 const cores = availableParallelism();
 
 const perSession = serial / count;
-const pct = (a: number, b: number) => `${((100 * a) / b).toFixed(1)} %`;
 const bound = 1.3 * (chartMs / cores) + startup;
 process.stdout.write(
   [

@@ -22,7 +22,6 @@ import { contextKey, sessionKey } from './cache/key.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
 import { type Diagnostic, escapeControls } from './diagnostics.js';
 import type { Catalog } from './lines/types.js';
-import { NotingCache } from './parallel/noting.js';
 import { autoJobs, runPool } from './parallel/pool.js';
 import type { TaskMessage } from './parallel/protocol.js';
 import type { SessionUnit } from './parallel/unit.js';
@@ -30,9 +29,9 @@ import type { SessionEvent } from './progress/reporter.js';
 import {
   failedRow,
   type IndexRow,
+  indexFiles,
   type OverviewEntry,
   type RenderContext,
-  renderIndexFiles,
   type SiteSettings,
 } from './report/site.js';
 import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
@@ -70,6 +69,8 @@ export interface BuildOptions {
   onStart?: (total: number) => void;
   /** The build will print record.pdf files (build --pdf), so pages link them. */
   pdf?: boolean;
+  /** Sessions on a page of the index (default SESSIONS_PER_PAGE; tests page small archives). */
+  indexPageSize?: number;
 }
 
 /** What the command line needs of each session: diagnostics carry the file's full path. */
@@ -339,6 +340,8 @@ function duplicateId(file: string, id: string, first: string): Diagnostic {
   };
 }
 
+const NO_BYTES = new Uint8Array(0);
+
 /** 10000-01-01T00:00:00Z in seconds: a build date has four digits of year. */
 const EPOCH_LIMIT_S = 253_402_300_800;
 
@@ -425,7 +428,9 @@ export async function buildSite(
   );
   // A session is either computed in this build or known from the cache by its head.
   type Known = { unit: SessionUnit; head?: undefined } | { unit?: undefined; head: UnitHead };
-  const units: (Known | undefined)[] = inputs.map((input, i) => {
+  // undefined: not known yet; null: placed in the site and let go, so memory does not grow
+  // with the archive (what the index needs is in `rows` and `overview`).
+  const units: (Known | undefined | null)[] = inputs.map((input, i) => {
     if ('problem' in input) return { unit: unreadableUnit(input.path, input.problem) };
     const head = store?.get(keys[i] as string);
     return head ? { head } : undefined;
@@ -445,9 +450,9 @@ export async function buildSite(
 
   // Sessions go into the site in file order: the first file with an id keeps it.
   const place = () => {
-    for (let known = units[placed]; known !== undefined; known = units[++placed]) {
+    for (let known = units[placed]; known !== undefined && known !== null; known = units[++placed]) {
       const u = known.unit ?? known.head;
-      const path = (inputs[placed] as { path: string }).path;
+      const path = paths[placed] as string;
       const full = (d: Diagnostic): Diagnostic => ({ ...d, file: path });
       let { ok, diagnostics, warnings } = u;
       let row = u.part.row;
@@ -480,6 +485,7 @@ export async function buildSite(
       };
       sessions.push(report);
       options.onSession?.({ file: path, status: report.status, ms: report.ms });
+      units[placed] = null;
     }
   };
 
@@ -487,14 +493,28 @@ export async function buildSite(
     units[index] = { unit };
     times[index] = ms;
     store?.put(keys[index] as string, unit);
+    // The session's bytes are not needed any more (a worker had its own copy).
+    const task = taskOf[index];
+    if (task) {
+      task.bytes = NO_BYTES;
+      task.profile = null;
+    }
     place();
   };
 
   const todo: TaskMessage[] = [];
+  const taskOf: (TaskMessage | undefined)[] = [];
   inputs.forEach((input, index) => {
-    if (units[index] === undefined && 'bytes' in input)
-      todo.push({ index, path: input.path, bytes: input.bytes, profile: profiles[index] ?? null });
+    if (units[index] === undefined && 'bytes' in input) {
+      const task = { index, path: input.path, bytes: input.bytes, profile: profiles[index] ?? null };
+      todo.push(task);
+      taskOf[index] = task;
+    }
   });
+  // From here on only the tasks hold session bytes, and each lets go of them once computed.
+  const paths = inputs.map((i) => i.path);
+  inputs.length = 0;
+  profiles.length = 0;
   const jobs = options.jobs === undefined || options.jobs === 'auto' ? autoJobs(todo.length) : options.jobs;
 
   let swapped = false;
@@ -541,9 +561,8 @@ export async function buildSite(
       );
     }
     t2 = performance.now();
-    const indexCharts = new NotingCache(charts);
-    staging.write(await renderIndexFiles(rows, overview, ctx, indexCharts));
-    for (const h of indexCharts.asked) usedCharts.add(h);
+    // One page at a time: a large archive's index is many pages, none held longer than needed.
+    for (const file of indexFiles(rows, overview, ctx, options.indexPageSize)) staging.write([file]);
     t3 = performance.now();
     swapped = staging.commit();
   } catch (e) {
@@ -556,7 +575,7 @@ export async function buildSite(
   return {
     sessions,
     failed: sessions.filter((s) => !s.ok).length,
-    cached: inputs.length - computedCount,
+    cached: paths.length - computedCount,
     computed: computedCount,
     jobs: computedCount === 0 ? 0 : jobs,
     unchanged: !swapped,

@@ -48,23 +48,44 @@ export function chartDirOf(cacheDir: string): string {
   return join(cacheDir, 'charts');
 }
 
+/** Charts held in memory at most (the most recently used): about 10 MB of SVG. */
+export const CHARTS_HELD = 400;
+
 /**
  * A chart cache (the Map renderChart takes) backed by the chart folder: looked-up charts are
  * read lazily, new ones written through. Safe to share between workers (whole-file renames).
+ * Only the most recently used `held` charts stay in memory: nearly every chart of an archive
+ * is drawn once (its data is its session's), so holding them all grew with the archive.
  */
 export class ChartStore extends Map<string, string> {
-  constructor(private readonly dir: string | null) {
+  constructor(
+    private readonly dir: string | null,
+    private readonly held: number = CHARTS_HELD,
+  ) {
     super();
+  }
+  private hold(hash: string, svg: string): void {
+    super.delete(hash);
+    super.set(hash, svg);
+    // A Map iterates in insertion order: the first key is the least recently used.
+    while (this.size > this.held) {
+      const oldest = this.keys().next().value as string;
+      super.delete(oldest);
+    }
   }
   override get(hash: string): string | undefined {
     const held = super.get(hash);
-    if (held !== undefined || this.dir === null) return held;
+    if (held !== undefined) {
+      this.hold(hash, held);
+      return held;
+    }
+    if (this.dir === null) return undefined;
     const svg = readOrUndefined(join(this.dir, `${hash}.svg`));
-    if (svg !== undefined) super.set(hash, svg);
+    if (svg !== undefined) this.hold(hash, svg);
     return svg;
   }
   override set(hash: string, svg: string): this {
-    super.set(hash, svg);
+    this.hold(hash, svg);
     if (this.dir !== null) {
       try {
         writeAtomically(join(this.dir, `${hash}.svg`), svg);

@@ -209,14 +209,50 @@ export async function renderSessionPart(
   };
 }
 
-/** The archive-wide files: the stylesheet and the index page (rows in any order; sorted here). */
-export async function renderIndexFiles(
+/**
+ * Sessions on one page of the index. A larger archive gets an index of pages (each with its
+ * dates and counts) and one page per hundred sessions, so no page grows with the archive; a
+ * smaller one keeps its single index page.
+ */
+export const SESSIONS_PER_PAGE = 100;
+
+/** The file of index page `n` (1-based); beside index.html, so links need no new root. */
+export function indexPagePath(n: number): string {
+  return `page-${n}.html`;
+}
+
+function counted(rows: readonly IndexRow[]) {
+  const count = (s: string) => rows.filter((r) => r.status === s).length;
+  return {
+    total: rows.length,
+    one: rows.length === 1,
+    identified: count('identified'),
+    ambiguous: count('ambiguous'),
+    unexplained: count('unexplained'),
+    failed: count('failed'),
+  };
+}
+
+/** First and last date of some rows (in time order), or null when none is dated. */
+function dateSpan(rows: readonly IndexRow[]): { from: string; to: string } | null {
+  const dated = rows.filter((r) => r.date !== null);
+  const first = dated[0]?.date;
+  const last = dated[dated.length - 1]?.date;
+  return first && last ? { from: first, to: last } : null;
+}
+
+/**
+ * The archive-wide files: the stylesheet, the index page and, for a large archive, the pages
+ * of sessions, one file at a time so a build can write each as it comes. Rows come in any
+ * order (sorted here). Everything is computed from the rows and overview entries, the small
+ * summaries each session leaves, never from the sessions' results.
+ */
+export function* indexFiles(
   rowsIn: readonly IndexRow[],
   overview: readonly OverviewEntry[],
   ctx: RenderContext,
-  // Kept for callers: the index draws no chart of its own any more (its strips are plain SVG).
-  _cache: ChartCache = new Map(),
-): Promise<SiteFile[]> {
+  perPage: number = SESSIONS_PER_PAGE,
+): Generator<SiteFile> {
   const { templates } = ctx;
   const common = commonOf(ctx);
   // In time order, oldest first, as a club's log reads; undated last; ties by title so the
@@ -227,41 +263,94 @@ export async function renderIndexFiles(
       a.title.localeCompare(b.title) ||
       a.file.localeCompare(b.file),
   );
-  const count = (s: string) => rows.filter((r) => r.status === s).length;
+  // One colour per species across the archive, so a species looks the same on every page.
   const colours = speciesColours(rows.map((r) => r.lines));
-  const shownRows = rows.map((r) => ({
+  const shown = (r: IndexRow) => ({
     ...r,
     strip: r.lines.length ? stripSvg(r.lines, colours) : null,
     speciesKey: [...new Set(r.lines.map((l) => l.species).filter((x): x is string => x !== null))]
       .sort()
       .map((species) => ({ species, swatch: swatchSvg(colours.get(species) ?? null) })),
     unexplainedSwatch: r.lines.some((l) => l.species === null) ? swatchSvg(null) : null,
-  }));
-  const indexBody = templates.index({
-    ...common,
-    root: '',
-    site: { ...ctx.settings, introHtml: renderNotes(ctx.settings.introMarkdown) },
-    sessions: shownRows,
-    stripRange: STRIP_RANGE_NM,
-    counts: {
-      total: rows.length,
-      one: rows.length === 1,
-      identified: count('identified'),
-      ambiguous: count('ambiguous'),
-      unexplained: count('unexplained'),
-      failed: count('failed'),
-    },
-    overview: overview.length > 0,
-    bySpecies: sessionsBySpecies(rows, overview),
-    generalCaution: GENERAL_CAUTION,
   });
-  return [
-    { path: 'style.css', contents: templates.css },
-    {
-      path: 'index.html',
-      contents: templates.layout({ ...common, root: '', pageTitle: ctx.settings.title, body: indexBody }),
-    },
-  ];
+  const site = { ...ctx.settings, introHtml: renderNotes(ctx.settings.introMarkdown) };
+  const page = (path: string, pageTitle: string, model: Record<string, unknown>): SiteFile => ({
+    path,
+    contents: templates.layout({
+      ...common,
+      root: '',
+      pageTitle,
+      body: templates.index({
+        ...common,
+        root: '',
+        site,
+        stripRange: STRIP_RANGE_NM,
+        generalCaution: GENERAL_CAUTION,
+        ...model,
+      }),
+    }),
+  });
+  yield { path: 'style.css', contents: templates.css };
+  if (rows.length <= perPage) {
+    yield page('index.html', ctx.settings.title, {
+      single: true,
+      sessions: rows.map(shown),
+      counts: counted(rows),
+      overview: overview.length > 0,
+      bySpecies: sessionsBySpecies(rows, overview),
+    });
+    return;
+  }
+  const pageCount = Math.ceil(rows.length / perPage);
+  const slices = Array.from({ length: pageCount }, (_, i) => rows.slice(i * perPage, (i + 1) * perPage));
+  const pageLinks = slices.map((slice, i) => ({
+    number: i + 1,
+    href: indexPagePath(i + 1),
+    first: i * perPage + 1,
+    last: i * perPage + slice.length,
+    span: dateSpan(slice),
+    counts: counted(slice),
+  }));
+  yield page('index.html', ctx.settings.title, {
+    home: true,
+    counts: counted(rows),
+    perPage,
+    pages: pageLinks,
+    overview: overview.length > 0,
+    speciesSummary: speciesSummary(rows, overview),
+  });
+  const pageIds = new Set<string>();
+  for (const [i, slice] of slices.entries()) {
+    const link = pageLinks[i] as (typeof pageLinks)[number];
+    pageIds.clear();
+    for (const r of slice) if (r.id !== null) pageIds.add(r.id);
+    const here = overview.filter((o) => pageIds.has(o.session));
+    yield page(link.href, `Sessions ${link.first}–${link.last} — ${ctx.settings.title}`, {
+      paged: true,
+      sessions: slice.map(shown),
+      counts: link.counts,
+      page: link,
+      pageCaption: `Sessions ${link.first}–${link.last} of the archive`,
+      of: rows.length,
+      pageCount,
+      previous: i > 0 ? indexPagePath(i) : null,
+      next: i + 1 < pageCount ? indexPagePath(i + 2) : null,
+      overview: here.length > 0,
+      bySpecies: sessionsBySpecies(slice, here),
+    });
+  }
+}
+
+/** The archive-wide files as one list (see indexFiles, which a build writes one by one). */
+export async function renderIndexFiles(
+  rowsIn: readonly IndexRow[],
+  overview: readonly OverviewEntry[],
+  ctx: RenderContext,
+  // Kept for callers: the index draws no chart of its own any more (its strips are plain SVG).
+  _cache: ChartCache = new Map(),
+  perPage: number = SESSIONS_PER_PAGE,
+): Promise<SiteFile[]> {
+  return [...indexFiles(rowsIn, overview, ctx, perPage)];
 }
 
 export function sortFiles(files: SiteFile[]): SiteFile[] {
@@ -300,4 +389,34 @@ function sessionsBySpecies(rows: readonly IndexRow[], overview: readonly Overvie
       species,
       sessions: sessions.sort((x, y) => x.title.localeCompare(y.title)),
     }));
+}
+
+/**
+ * The overview of a paged index: each species with how many sessions found it and the first
+ * and latest of them (rows in time order), from the overview entries alone.
+ */
+export function speciesSummary(rows: readonly IndexRow[], overview: readonly OverviewEntry[]) {
+  const order = new Map<string, number>();
+  rows.forEach((r, i) => {
+    if (r.id !== null && r.href !== null) order.set(r.id, i);
+  });
+  const groups = new Map<string, { count: number; first: number; last: number }>();
+  for (const o of overview) {
+    const at = order.get(o.session);
+    if (at === undefined) continue;
+    const g = groups.get(o.species);
+    if (!g) groups.set(o.species, { count: 1, first: at, last: at });
+    else {
+      g.count++;
+      g.first = Math.min(g.first, at);
+      g.last = Math.max(g.last, at);
+    }
+  }
+  const link = (i: number) => {
+    const r = rows[i] as IndexRow;
+    return { title: r.title, href: r.href, date: r.date };
+  };
+  return [...groups.entries()]
+    .sort((a, b) => a[0].localeCompare(b[0]))
+    .map(([species, g]) => ({ species, count: g.count, first: link(g.first), last: link(g.last) }));
 }
