@@ -68,6 +68,8 @@ export interface IndexRow {
 export interface OverviewEntry {
   session: string;
   species: string;
+  /** The species as the pages write it ([O III], C III]). */
+  display: string;
 }
 
 /** Everything the render stage needs besides the sessions themselves. */
@@ -185,7 +187,11 @@ export async function renderSessionPart(
     });
   return {
     files,
-    overview: identification.explanation.species.map((s) => ({ session: session.id, species: s })),
+    overview: identification.explanation.species.map((s) => ({
+      session: session.id,
+      species: s,
+      display: identification.display[s] ?? s,
+    })),
     row: {
       sortKey: session.date ?? '',
       // The day is enough in the list; the record keeps the full date-time.
@@ -376,17 +382,19 @@ export async function renderSite(input: RenderInput, cache: ChartCache = new Map
 function sessionsBySpecies(rows: readonly IndexRow[], overview: readonly OverviewEntry[]) {
   const byHref = new Map(rows.filter((r) => r.href).map((r) => [r.href, r]));
   const groups = new Map<string, { title: string; href: string }[]>();
+  const shown = new Map<string, string>();
   for (const o of overview) {
     const row = byHref.get(`sessions/${o.session}/index.html`);
     if (!row?.href) continue;
     const list = groups.get(o.species) ?? [];
     list.push({ title: row.title, href: row.href });
     groups.set(o.species, list);
+    shown.set(o.species, o.display);
   }
   return [...groups.entries()]
     .sort((a, b) => a[0].localeCompare(b[0]))
     .map(([species, sessions]) => ({
-      species,
+      species: shown.get(species) ?? species,
       sessions: sessions.sort((x, y) => x.title.localeCompare(y.title)),
     }));
 }
@@ -401,9 +409,11 @@ export function speciesSummary(rows: readonly IndexRow[], overview: readonly Ove
     if (r.id !== null && r.href !== null) order.set(r.id, i);
   });
   const groups = new Map<string, { count: number; first: number; last: number }>();
+  const shown = new Map<string, string>();
   for (const o of overview) {
     const at = order.get(o.session);
     if (at === undefined) continue;
+    shown.set(o.species, o.display);
     const g = groups.get(o.species);
     if (!g) groups.set(o.species, { count: 1, first: at, last: at });
     else {
@@ -418,5 +428,10 @@ export function speciesSummary(rows: readonly IndexRow[], overview: readonly Ove
   };
   return [...groups.entries()]
     .sort((a, b) => a[0].localeCompare(b[0]))
-    .map(([species, g]) => ({ species, count: g.count, first: link(g.first), last: link(g.last) }));
+    .map(([species, g]) => ({
+      species: shown.get(species) ?? species,
+      count: g.count,
+      first: link(g.first),
+      last: link(g.last),
+    }));
 }

@@ -66,13 +66,14 @@ describe('paged index of a large archive', () => {
     for (let n = 1; n <= pageCount; n++) expect(index).toContain(`href="${indexPagePath(n)}"`);
 
     // Its overview agrees with the results themselves (read here, by the test only): each
-    // species with the number of sessions whose explanation names it.
+    // species with the number of sessions whose explanation names it, written as the result's
+    // display names ([O III]).
     const fromResults = new Map<string, number>();
     for (const id of readdirSync(join(out, 'sessions'))) {
       const result = JSON.parse(readFileSync(join(out, 'sessions', id, 'result.json'), 'utf8')) as {
-        explanation: { species: string[] };
+        explanation: { species: string[]; display: string[] };
       };
-      for (const s of result.explanation.species) fromResults.set(s, (fromResults.get(s) ?? 0) + 1);
+      for (const s of result.explanation.display) fromResults.set(s, (fromResults.get(s) ?? 0) + 1);
     }
     const fromIndex = new Map(
       [...index.matchAll(/<tr><th scope="row">([^<]+)<\/th><td>(\d+)<\/td>/g)].map((m) => [
@@ -113,8 +114,9 @@ describe('paged index of a large archive', () => {
         lines: [],
         id,
       });
-      if (i % 3 === 0) overview.push({ session: id, species: 'X I' });
-      if (i % 5 === 0) overview.push({ session: id, species: 'Y II' });
+      if (i % 3 === 0) overview.push({ session: id, species: 'X I', display: 'X I' });
+      // A forbidden species is shown in brackets, as everywhere else.
+      if (i % 5 === 0) overview.push({ session: id, species: 'Y II', display: '[Y II]' });
     }
     const files = [...indexFiles(rows, overview, ctx)];
     expect(files.map((f) => f.path)).toEqual([
@@ -126,7 +128,7 @@ describe('paged index of a large archive', () => {
     ]);
     const index = (files[1] as { contents: string }).contents;
     expect(index).toMatch(/<th scope="row">X I<\/th><td>84<\/td>/);
-    expect(index).toMatch(/<th scope="row">Y II<\/th><td>50<\/td>/);
+    expect(index).toMatch(/<th scope="row">\[Y II\]<\/th><td>50<\/td>/);
     const ambiguous = rows.filter((r) => r.status === 'ambiguous').length;
     expect(index).toContain(`250 sessions: ${250 - ambiguous} identified, ${ambiguous} ambiguous`);
     // Each page lists its own sessions by species: page 1 holds the first 100 in time order.
