@@ -173,6 +173,8 @@ export async function sessionPageModel(
     idn.explanation.species.length > 0
       ? idn.explanation.species
       : idn.candidates.slice(0, 1).map((c) => c.species);
+  // Every species on the page as the pages write it ([O III], C III]).
+  const named = (sp: string) => idn.display[sp] ?? sp;
   const references: { wavelength_nm: number; height: number; species: string }[] = [];
   for (const sp of shownSpecies) {
     const lines = catalog.species.get(sp);
@@ -188,12 +190,12 @@ export async function sessionPageModel(
       references.push({
         wavelength_nm: display(v, medium),
         height: -(0.15 + 0.85 * ((lines.intensity[k] as number) / (top || 1))),
-        species: sp,
+        species: named(sp),
       });
     }
   }
   const range: [number, number] = [display(idn.range_nm[0], medium), display(idn.range_nm[1], medium)];
-  const spectrumTitle = `${drawing}, and reference lines of ${shownSpecies.join(', ') || 'no species'} (dashed, below the middle line, longer for stronger lines), ${range[0].toFixed(0)}–${range[1].toFixed(0)} ${restLabel} nm; the band shows the colour of each wavelength.`;
+  const spectrumTitle = `${drawing}, and reference lines of ${shownSpecies.map(named).join(', ') || 'no species'} (dashed, below the middle line, longer for stronger lines), ${range[0].toFixed(0)}–${range[1].toFixed(0)} ${restLabel} nm; the band shows the colour of each wavelength.`;
   const spectrum = await renderChart(
     spectrumChart({
       title: spectrumTitle,
@@ -201,7 +203,7 @@ export async function sessionPageModel(
       range_nm: range,
       measured,
       references,
-      species: shownSpecies,
+      species: shownSpecies.map(named),
     }),
     cache,
   );
@@ -215,13 +217,16 @@ export async function sessionPageModel(
         wavelength_nm: display(l.assignment?.ref_vacuum_nm ?? 0, medium),
         residual_nm: l.assignment?.residual_nm ?? 0,
         sigma_nm: line?.rest_sigma_nm ?? 0,
-        species: l.assignment?.species ?? '',
+        species: l.assignment ? named(l.assignment.species) : '',
       };
     });
   const residualTitle = `Residuals of the ${residualPoints.length} assigned lines (measured − reference) with ±1σ bars.`;
   const residuals =
     residualPoints.length > 0
-      ? await renderChart(residualChart(residualTitle, unitLabel, residualPoints, shownSpecies), cache)
+      ? await renderChart(
+          residualChart(residualTitle, unitLabel, residualPoints, shownSpecies.map(named)),
+          cache,
+        )
       : null;
 
   // Only species with some evidence are listed; the rest are counted (all are in result.json).
@@ -237,7 +242,7 @@ export async function sessionPageModel(
           scoreChart(
             scoresTitle,
             top.map((c) => ({
-              species: c.species,
+              species: named(c.species),
               score: Number(c.score.toFixed(3)),
               chosen: chosen.has(c.species),
             })),
@@ -304,7 +309,7 @@ export async function sessionPageModel(
     status: idn.explanation.status,
     summary: idn.explanation.summary,
     discriminators: idn.explanation.discriminators.map((d) => ({
-      species: d.species,
+      species: named(d.species),
       against: d.against,
       wavelength: fixed(medium === 'air' ? d.air_nm : d.vacuum_nm, 2),
     })),
@@ -362,14 +367,14 @@ export async function sessionPageModel(
           (a?.alternatives ?? [])
             .map(
               (x) =>
-                `${x.species} ${fixed(display(x.ref_vacuum_nm, medium), 2)} (${fixed(x.residual_nm, 2)})`,
+                `${named(x.species)} ${fixed(display(x.ref_vacuum_nm, medium), 2)} (${fixed(x.residual_nm, 2)})`,
             )
             .join('; ') || '—',
       };
     }),
     candidates: shownCandidates.map((c, i) => ({
       rank: i + 1,
-      species: c.telluric ? `${c.species} (telluric)` : c.species,
+      species: c.telluric ? `${named(c.species)} (telluric)` : named(c.species),
       chosen: chosen.has(c.species),
       inRecord: chosen.has(c.species) ? 'yes' : '',
       score: fixed(c.score, 1),

@@ -209,7 +209,8 @@ export async function renderSessionPart(
       id: session.id,
       lines: reduction.lines.map((l) => ({
         nm: display(l.rest_vacuum_nm, reduction.medium),
-        species: identification.lines.find((a) => a.index === l.index)?.assignment?.species ?? null,
+        // As the pages write it ([O III]): the strip's legend and its text.
+        species: identification.lines.find((a) => a.index === l.index)?.assignment?.display ?? null,
       })),
     },
   };
