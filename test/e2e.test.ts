@@ -72,6 +72,16 @@ describe('lineledger build (demo)', () => {
     expect(flame.explanation.species).toContain('Li I');
   });
 
+  it('writes forbidden lines in brackets everywhere on the pages ([O III], never a bare O III)', () => {
+    // The convention of nebular spectroscopy (Osterbrock & Ferland 2006, ch. 3; from memory):
+    // a forbidden transition's species is bracketed. The demo quasar's explanation holds [O III].
+    for (const page of ['index.html', 'sessions/quasar-2026-05-30/index.html']) {
+      const html = readFileSync(join(out, page), 'utf8');
+      expect(html, page).toContain('[O III]');
+      expect(html.match(/(^|[^[])O III(?!\])/g), page).toBeNull();
+    }
+  });
+
   it('gives every session page an inline SVG chart and no script', () => {
     for (const f of files(out).filter((p) => p.endsWith('index.html') && p.startsWith('sessions'))) {
       const html = readFileSync(join(out, f), 'utf8');
