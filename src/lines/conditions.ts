@@ -8,6 +8,8 @@
  * wavelength is nearest, within CONDITION_MATCH_NM; a row that finds none is an error, not a
  * silent drop. Pure: text in, problems out at file:line:col.
  */
+
+import { eachTsvRow, type TsvProblem } from './tsv.js';
 import {
   type CatalogFile,
   LINE_CONDITIONS,
@@ -37,7 +39,7 @@ export interface ConditionRow {
   line: number;
 }
 
-type Problem = (file: string, line: number, col: number, field: string, message: string) => void;
+type Problem = TsvProblem;
 
 export function parseConditionFile(
   file: CatalogFile,
@@ -45,27 +47,7 @@ export function parseConditionFile(
   problem: Problem,
 ): ConditionRow[] {
   const rows: ConditionRow[] = [];
-  let header = false;
-  file.text.split(/\r?\n/).forEach((text, i) => {
-    const lineNo = i + 1;
-    if (text.trim() === '' || text.startsWith('#')) return;
-    const cells = text.split('\t');
-    if (!header) {
-      header = true;
-      if (cells.join('\t') !== CONDITION_COLUMNS.join('\t'))
-        problem(file.name, lineNo, 1, 'header', `header must be: ${CONDITION_COLUMNS.join(' ')}`);
-      return;
-    }
-    if (cells.length !== CONDITION_COLUMNS.length) {
-      problem(
-        file.name,
-        lineNo,
-        1,
-        'row',
-        `expected ${CONDITION_COLUMNS.length} tab-separated cells, found ${cells.length}`,
-      );
-      return;
-    }
+  eachTsvRow(file, CONDITION_COLUMNS, problem, ({ cells, line: lineNo, col }) => {
     const [species, vac, condition, strength, source, origin] = cells as [
       string,
       string,
@@ -74,7 +56,6 @@ export function parseConditionFile(
       string,
       string,
     ];
-    const col = (k: number) => cells.slice(0, k).reduce((n, c) => n + c.length + 1, 1);
     let ok = true;
     const bad = (k: number, field: string, message: string) => {
       problem(file.name, lineNo, col(k), field, message);
@@ -111,7 +92,6 @@ export function parseConditionFile(
       line: lineNo,
     });
   });
-  if (!header) problem(file.name, 1, 1, 'header', 'no header row');
   return rows;
 }
 

@@ -7,6 +7,7 @@ import { parse as parseYaml } from 'yaml';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import { type ConditionRow, joinConditions, parseConditionFile } from './conditions.js';
 import { EMPTY_PRIORS, parsePriors } from './priors.js';
+import { eachTsvRow } from './tsv.js';
 import {
   type CandidateGroup,
   type Catalog,
@@ -142,29 +143,7 @@ function parseLineFile(
   problem: Problem,
 ): Row[] {
   const rows: Row[] = [];
-  let header: string[] | null = null;
-  const lines = file.text.split(/\r?\n/);
-  lines.forEach((text, i) => {
-    const lineNo = i + 1;
-    if (text.trim() === '' || text.startsWith('#')) return;
-    const cells = text.split('\t');
-    if (header === null) {
-      header = cells;
-      if (cells.join('\t') !== CATALOG_COLUMNS.join('\t')) {
-        problem(file.name, lineNo, 1, 'header', `header must be: ${CATALOG_COLUMNS.join(' ')}`);
-      }
-      return;
-    }
-    if (cells.length !== CATALOG_COLUMNS.length) {
-      problem(
-        file.name,
-        lineNo,
-        1,
-        'row',
-        `expected ${CATALOG_COLUMNS.length} tab-separated cells, found ${cells.length}`,
-      );
-      return;
-    }
+  eachTsvRow(file, CATALOG_COLUMNS, problem, ({ cells, line: lineNo, col }) => {
     const [species, vac, air, unc, intensity, flags, source, origin] = cells as [
       string,
       string,
@@ -175,7 +154,6 @@ function parseLineFile(
       string,
       string,
     ];
-    const col = (k: number) => cells.slice(0, k).reduce((n, c) => n + c.length + 1, 1);
     const num = (s: string, k: number, field: string, allowDash = false): number => {
       if (allowDash && s === '-') return Number.NaN;
       const v = Number(s);
@@ -201,7 +179,6 @@ function parseLineFile(
       where: `${file.name}:${lineNo}`,
     });
   });
-  if (header === null) problem(file.name, 1, 1, 'header', 'no header row');
   return rows;
 }
 
