@@ -4,17 +4,17 @@
  * Each loads with no console error, axe-core finds no serious accessibility problem, nothing
  * widens a 400 px screen, and a page prints to PDF.
  */
-import { existsSync, readdirSync, readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { type Browser, chromium } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildSite } from '../src/build.js';
 import { loadCatalog } from '../src/lines/load.js';
 import { optionsFor, tempDir } from './build/helpers.js';
+import { chromiumAvailable, launchChromium } from './helpers/chromium.js';
 
-const CHROMIUM = '/usr/bin/chromium';
-const available = existsSync(CHROMIUM);
+const available = chromiumAvailable;
 
 describe.skipIf(!available)('paged index in headless Chromium', () => {
   let browser: Browser;
@@ -28,16 +28,7 @@ describe.skipIf(!available)('paged index in headless Chromium', () => {
       loaded.value,
     );
     pages = ['index.html', ...readdirSync(site).filter((n) => /^page-\d+\.html$/.test(n))];
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: [
-        '--headless',
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-background-networking',
-        '--no-first-run',
-      ],
-    });
+    browser = await launchChromium();
   });
   afterAll(async () => {
     await browser?.close();

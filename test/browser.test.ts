@@ -5,18 +5,16 @@
  * Screenshots go to test-artifacts/.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { type Browser, chromium } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startPreview } from '../src/commands/preview.js';
+import { chromiumAvailable, launchChromium } from './helpers/chromium.js';
 
-const CHROMIUM = '/usr/bin/chromium';
-const available = existsSync(CHROMIUM);
-if (!available && process.env.CI)
-  throw new Error('CI must have Debian chromium installed (.ci/run installs it)');
+const available = chromiumAvailable;
 
 const SITE = resolve('site');
 const ARTIFACTS = resolve('test-artifacts');
@@ -26,16 +24,7 @@ describe.skipIf(!available)('demo site in headless Chromium', () => {
   let browser: Browser;
   beforeAll(async () => {
     mkdirSync(ARTIFACTS, { recursive: true });
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: [
-        '--headless',
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-background-networking',
-        '--no-first-run',
-      ],
-    });
+    browser = await launchChromium();
   });
   afterAll(async () => {
     await browser?.close();
