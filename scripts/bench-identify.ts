@@ -11,14 +11,12 @@ import { writeFileSync } from 'node:fs';
 import { calibratedConfidence } from '../src/identify/model.js';
 import { loadCatalog } from '../src/lines/load.js';
 import { runSession } from '../src/pipeline.js';
+import { numberArg } from './args.js';
 import { fitPlatt, type RawOutcome } from './platt.js';
 import { makeSession, rng, type SyntheticOptions, visibleLines } from './synthetic.js';
 
 const args = process.argv.slice(2);
-const arg = (name: string, fallback: number) => {
-  const i = args.indexOf(name);
-  return i >= 0 ? Number(args[i + 1]) : fallback;
-};
+const arg = (name: string, fallback: number) => numberArg(args, name, fallback);
 const SEED = arg('--seed', 20261202);
 const N = arg('--n', 200);
 const FIT = args.includes('--fit');

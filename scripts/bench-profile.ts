@@ -18,13 +18,11 @@ import { findLines } from '../src/reduce/profile/find.js';
 import type { ProfileData } from '../src/session/profile/types.js';
 import { expectedCounts, poissonProfile, type SyntheticLine } from '../test/helpers/profile.js';
 import { mulberry32 } from '../test/helpers/random.js';
+import { numberArg } from './args.js';
 import { pipelineOf } from './bench-profile-e2e.js';
 
 const args = process.argv.slice(2);
-const arg = (name: string, fallback: number) => {
-  const i = args.indexOf(name);
-  return i >= 0 ? Number(args[i + 1]) : fallback;
-};
+const arg = (name: string, fallback: number) => numberArg(args, name, fallback);
 const SEED = arg('--seed', 20261202);
 const N = arg('--n', 200);
 const rand = mulberry32(SEED);

@@ -7,7 +7,7 @@
 import { windowRange } from '../src/lines/search.js';
 import type { Catalog } from '../src/lines/types.js';
 import { airToVacuum, vacuumToAir } from '../src/reduce/airVacuum.js';
-import { gaussianDeviate, mulberry32 } from '../test/helpers/random.js';
+import { gaussianDeviate, mulberry32, poissonDeviate } from '../test/helpers/random.js';
 
 export const rng = mulberry32;
 export const gauss = gaussianDeviate;
@@ -90,17 +90,6 @@ interface Feature {
   owner: string | null;
 }
 
-function poisson(rand: () => number, mean: number): number {
-  const limit = Math.exp(-mean);
-  let k = 0;
-  let p = rand();
-  while (p > limit) {
-    k++;
-    p *= rand();
-  }
-  return k;
-}
-
 export function makeSession(
   catalog: Catalog,
   rand: () => number,
@@ -130,7 +119,7 @@ export function makeSession(
       rows.push({ wavelength: shown, intensity, owner: s });
     }
   }
-  const spurious = poisson(rand, o.spuriousMean);
+  const spurious = poissonDeviate(rand, o.spuriousMean);
   for (let i = 0; i < spurious; i++) {
     rows.push({
       wavelength: o.range_nm[0] + rand() * (o.range_nm[1] - o.range_nm[0]),

@@ -7,7 +7,7 @@ import { parse as parseYaml } from 'yaml';
 import type { Diagnostic, Outcome } from '../diagnostics.js';
 import { type ConditionRow, joinConditions, parseConditionFile } from './conditions.js';
 import { EMPTY_PRIORS, parsePriors } from './priors.js';
-import { eachTsvRow } from './tsv.js';
+import { eachTsvRow, type TsvProblem } from './tsv.js';
 import {
   type CandidateGroup,
   type Catalog,
@@ -135,7 +135,7 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
   };
 }
 
-type Problem = (file: string, line: number, col: number, field: string, message: string) => void;
+type Problem = TsvProblem;
 
 function parseLineFile(
   file: CatalogFile,
