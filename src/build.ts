@@ -546,19 +546,17 @@ export async function buildSite(
       }
     } else {
       const { templates: _compiled, catalog: _catalog, ...render } = ctx;
-      await runPool(
-        todo,
-        jobs,
-        {
-          catalog,
-          templates: templateTexts,
-          render,
-          instrumentDefaults,
-          chartDir: store ? store.chartDir : null,
-        },
-        computed,
-        here,
-      );
+      const init = {
+        catalog,
+        templates: templateTexts,
+        render,
+        instrumentDefaults,
+        chartDir: store ? store.chartDir : null,
+      };
+      if (jobs === 2) {
+        const { runWithRenderThread } = await import('./parallel/overlap.js');
+        await runWithRenderThread(todo, { render: ctx, instrumentDefaults }, init, computed);
+      } else await runPool(todo, jobs, init, computed, here);
     }
     t2 = performance.now();
     // One page at a time: a large archive's index is many pages, none held longer than needed.

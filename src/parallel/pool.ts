@@ -23,25 +23,29 @@ const MAX_THREADS = 8;
 const QUEUED_PER_WORKER = 2;
 
 /**
- * `--jobs auto`: the number of threads that compute sessions, this one included. One core is
- * left to V8's own threads: a serial build already keeps a second core over a third busy with
+ * `--jobs auto`: the number of threads of a build, this one included. One core is left to
+ * V8's own threads: a serial build already keeps a second core over a third busy with
  * optimising compilation and garbage collection (measured per thread on 2 cores, see
- * docs/archive.md), and each worker repeats its start-up and warm-up. So on 1 or 2 cores, and
- * for a handful of sessions, the build stays serial; on more, one thread per core but one.
+ * docs/archive.md), and each session worker repeats its start-up and warm-up. So one core,
+ * or a handful of sessions, stays serial; two cores split the stages (this thread computes,
+ * a render thread renders: src/parallel/overlap.ts), since each thread then warms up only
+ * its own stages' code; more cores run one session thread per core but one.
  */
 export function autoJobs(tasks: number, cores: number = availableParallelism()): number {
-  if (tasks < SERIAL_BELOW || cores < 3) return 1;
+  if (tasks < SERIAL_BELOW || cores < 2) return 1;
+  if (cores === 2) return 2;
   return Math.max(1, Math.min(tasks, MAX_THREADS, cores - 1));
 }
 
-function startWorker(init: WorkerInit): Worker {
+/** Starts the worker module `name` of this folder (`worker`, `renderWorker`) with `workerData`. */
+export function startWorker(name: string, workerData: unknown): Worker {
   const own = import.meta.url;
   if (own.endsWith('.ts')) {
-    const url = new URL('./worker.ts', own).href;
+    const url = new URL(`./${name}.ts`, own).href;
     const code = `import('tsx/esm/api').then((m) => { m.register(); return import(${JSON.stringify(url)}); })`;
-    return new Worker(code, { eval: true, workerData: init });
+    return new Worker(code, { eval: true, workerData });
   }
-  return new Worker(new URL('./worker.js', own), { workerData: init });
+  return new Worker(new URL(`./${name}.js`, own), { workerData });
 }
 
 /** Lets waiting worker messages be handled between two sessions computed here. */
@@ -61,7 +65,7 @@ export async function runPool(
   if (tasks.length === 0) return;
   // A single task is done here: a worker would only add its start-up.
   const workerCount = Math.max(0, Math.min(threads - 1, tasks.length - 1));
-  const workers = Array.from({ length: workerCount }, () => startWorker(init));
+  const workers = Array.from({ length: workerCount }, () => startWorker('worker', init));
   let next = 0;
   let finished = 0;
   let failed = false;

@@ -1,5 +1,6 @@
 /** Messages between the build and its workers (plain values: structured clone carries them). */
 import type { Catalog } from '../lines/types.js';
+import type { SessionOutcome } from '../pipeline.js';
 import type { RenderContext } from '../report/site.js';
 import type { TemplateTexts } from '../report/templates.js';
 import type { ProfileInput } from '../session/profile/types.js';
@@ -27,3 +28,16 @@ export interface TaskMessage {
 export type ResultMessage =
   | { index: number; ok: true; unit: SessionUnit; ms: number }
   | { index: number; ok: false; error: string };
+
+/** A session computed in the main thread, for the render thread (overlap.ts). */
+export interface RenderRequest {
+  index: number;
+  outcome: SessionOutcome;
+  /** The session file's bytes (its copy in the site). */
+  bytes: Uint8Array;
+  /** The profile file's bytes, copied beside session.yaml (null: none). */
+  profileBytes: Uint8Array | null;
+}
+
+/** The render thread's answer: the unit, and how long rendering took there. */
+export type RenderReply = ResultMessage;

@@ -4,8 +4,7 @@
  * of the render stage; the same function serves the serial path and the workers.
  */
 import type { Diagnostic } from '../diagnostics.js';
-import type { Catalog } from '../lines/types.js';
-import { runSession } from '../pipeline.js';
+import { runSession, type SessionOutcome } from '../pipeline.js';
 import type { ChartCache } from '../report/charts/render.js';
 import {
   type RenderContext,
@@ -47,19 +46,36 @@ export async function processSession(
   charts: ChartCache,
   profile: ProfileInput | null = null,
 ): Promise<SessionUnit> {
-  const fileName = baseName(path);
-  const catalog: Catalog = ctx.render.catalog;
-  const outcome = runSession(path, bytes, catalog, { instrumentDefaults: ctx.instrumentDefaults, profile });
+  const outcome = computeSession(path, bytes, ctx, profile);
+  return renderUnit(outcome, bytes, ctx.render, charts, profile && 'bytes' in profile ? profile.bytes : null);
+}
+
+/** The pure stages of one session: read, reduce, identify. */
+export function computeSession(
+  path: string,
+  bytes: Uint8Array,
+  ctx: UnitContext,
+  profile: ProfileInput | null = null,
+): SessionOutcome {
+  return runSession(path, bytes, ctx.render.catalog, { instrumentDefaults: ctx.instrumentDefaults, profile });
+}
+
+/**
+ * The session's part of the render stage, from its outcome: its pages, charts and copies, as a
+ * unit. A render thread runs this half on outcomes computed elsewhere (overlap.ts).
+ */
+export async function renderUnit(
+  outcome: SessionOutcome,
+  bytes: Uint8Array,
+  render: RenderContext,
+  charts: ChartCache,
+  profileBytes: Uint8Array | null,
+): Promise<SessionUnit> {
+  const fileName = baseName(outcome.file);
   // Buffer, not TextDecoder: the copy in the site must keep a byte-order mark if there is one.
   const text = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('utf8');
   const noting = new NotingCache(charts);
-  const part = await renderSessionPart(
-    outcome,
-    text,
-    ctx.render,
-    noting,
-    profile && 'bytes' in profile ? profile.bytes : null,
-  );
+  const part = await renderSessionPart(outcome, text, render, noting, profileBytes);
   const local = (d: Diagnostic): Diagnostic => ({ ...d, file: fileName });
   const session = outcome.session;
   return {

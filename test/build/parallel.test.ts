@@ -49,10 +49,21 @@ describe('parallel build', () => {
     expect(snapshot(join(root, 'three'))).toEqual(a);
   });
 
-  it('stays serial for a handful of sessions and on one or two cores, else one thread per core but one', () => {
+  it('fills the cache from the render thread so that a serial rebuild reuses it, same bytes', async () => {
+    const { dir } = archive(5);
+    const root = tempDir('ll-par-cache-');
+    const cacheDir = join(root, 'cache');
+    const first = await buildSite(optionsFor(dir, join(root, 'split'), { cacheDir, jobs: 2 }), catalog);
+    expect(first.jobs).toBe(2);
+    const again = await buildSite(optionsFor(dir, join(root, 'again'), { cacheDir, jobs: 1 }), catalog);
+    expect(again.sessions.every((s) => s.status !== 'failed')).toBe(true);
+    expect(snapshot(join(root, 'again'))).toEqual(snapshot(join(root, 'split')));
+  });
+
+  it('stays serial for a handful of sessions and on one core, splits the stages on two, else one thread per core but one', () => {
     expect(autoJobs(SERIAL_BELOW - 1, 4)).toBe(1);
     expect(autoJobs(500, 1)).toBe(1);
-    expect(autoJobs(500, 2)).toBe(1);
+    expect(autoJobs(500, 2)).toBe(2);
     expect(autoJobs(500, 3)).toBe(2);
     expect(autoJobs(500, 8)).toBe(7);
   });
