@@ -5,7 +5,7 @@
  * Exit codes: 0 all good, 1 some input had problems, 2 could not run.
  */
 import { Command, CommanderError } from 'commander';
-import { CommandFailure, EXIT_CANNOT_RUN, EXIT_OK } from './commands/common.js';
+import { CommandFailure, EXIT_CANNOT_RUN, EXIT_OK } from './commands/output.js';
 import { PROGRAM_VERSION } from './version.js';
 
 type Register = (program: Command, done: (code: number) => void) => void;

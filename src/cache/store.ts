@@ -11,6 +11,7 @@ import { threadId } from 'node:worker_threads';
 import type { SessionUnit } from '../parallel/unit.js';
 import type { SessionPart, SiteFile } from '../report/site.js';
 import { contentHash, siteFileData } from '../write/manifest.js';
+import { STAMP_FILE } from './upToDate.js';
 
 export interface FileRef {
   path: string;
@@ -117,7 +118,13 @@ export class SessionStore {
       );
     if (found !== fingerprint) {
       // Only what this cache itself made: --cache-dir may name a folder holding other things.
-      for (const own of [this.sessionsDir, this.chartDir, join(dir, 'site-manifest.json'), stamp])
+      for (const own of [
+        this.sessionsDir,
+        this.chartDir,
+        join(dir, 'site-manifest.json'),
+        join(dir, STAMP_FILE),
+        stamp,
+      ])
         rmSync(own, { recursive: true, force: true });
       mkdirSync(this.sessionsDir, { recursive: true });
       mkdirSync(this.chartDir, { recursive: true });

@@ -1,21 +1,27 @@
 /** `lineledger build [DIR]`: every session of a folder into a static site; `--watch` keeps at it. */
-import { type FSWatcher, watch } from 'node:fs';
-import { basename, dirname, resolve } from 'node:path';
+import { existsSync, type FSWatcher, readdirSync, readFileSync, watch } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
 import type { Command } from 'commander';
-import { buildSite, readSessionInput, readSourceDateEpoch } from '../build.js';
+import type { BuildReport } from '../build.js';
+import { programFingerprint } from '../cache/fingerprint.js';
+import { defaultCacheDir } from '../cache/store.js';
+import { type FileRead, identitiesOf, type StampedSession, stillUpToDate } from '../cache/upToDate.js';
+import {
+  CONFIG_FILE_NAME,
+  configFromDocument,
+  defaultConfig,
+  type ProjectConfig,
+} from '../config/project.js';
+import type { ProjectConfigDocument } from '../config/schema.js';
 import { escapeControls } from '../diagnostics.js';
+import { listSessionFiles, readSessionInput } from '../input/sessionFiles.js';
+import { bundledDataDir } from '../lines/load.js';
 import { createProgress, type Verbosity } from '../progress/reporter.js';
+import { parseYamlSource } from '../session/yamlSource.js';
 import { PROGRAM_VERSION } from '../version.js';
 import { TargetRefused } from '../write/guard.js';
-import {
-  CommandFailure,
-  EXIT_CANNOT_RUN,
-  EXIT_OK,
-  EXIT_PROBLEMS,
-  loadCatalogFor,
-  loadConfig,
-  printDiagnostics,
-} from './common.js';
+import { hasLeftovers } from '../write/swap.js';
+import { CommandFailure, EXIT_CANNOT_RUN, EXIT_OK, EXIT_PROBLEMS, printDiagnostics } from './output.js';
 
 interface BuildFlags {
   out?: string;
@@ -39,19 +45,162 @@ function parseJobs(text: string | undefined): number | 'auto' {
   return Number(text);
 }
 
-/** What one build needs to know, re-read from the config each time (watch mode picks up edits). */
-function plan(dirArg: string | undefined, opts: BuildFlags) {
-  const config = loadConfig(opts.config);
-  const dir = dirArg ?? config.sessionsDir;
+/** `--config FILE`, else ./lineledger.yaml when present, else none (the defaults). */
+function configFileOf(opts: BuildFlags): string | undefined {
+  return opts.config ?? (existsSync(CONFIG_FILE_NAME) ? CONFIG_FILE_NAME : undefined);
+}
+
+/** The sessions folder (null: none named) and the output folder, from the arguments and a config. */
+function placesOf(config: ProjectConfig, dirArg: string | undefined, opts: BuildFlags) {
+  return { dir: dirArg ?? config.sessionsDir, out: opts.out ?? config.outDir ?? 'site' };
+}
+
+/**
+ * What one build needs to know, re-read from the config each time (watch mode picks up edits).
+ * The config and catalog readers (and the schema validator they load) are loaded only here.
+ */
+async function plan(dirArg: string | undefined, opts: BuildFlags) {
+  const common = await import('./common.js');
+  const config = common.loadConfig(opts.config);
+  const { dir, out } = placesOf(config, dirArg, opts);
   if (!dir)
     throw new CommandFailure(
       'name the folder of sessions (lineledger build DIR), or set sessions: in lineledger.yaml',
     );
-  return { config, dir, out: opts.out ?? config.outDir ?? 'site' };
+  return { config, dir, out, loadCatalogFor: common.loadCatalogFor };
+}
+
+/**
+ * The config as the last build would have read it, without the schema check: only used to
+ * find the up-to-date stamp, which vouches for it only if the file is unchanged since a build
+ * that validated it. null when it does not even parse (the build reports why).
+ */
+function unvalidatedConfig(file: string | undefined): ProjectConfig | null {
+  if (file === undefined) return defaultConfig();
+  try {
+    const parsed = parseYamlSource(readFileSync(file, 'utf8'), file);
+    return parsed.source
+      ? configFromDocument(parsed.source.data as ProjectConfigDocument, resolve(file))
+      : null;
+  } catch {
+    return null;
+  }
+}
+
+/** Everything asked of a build that is not a file it reads (those are compared one by one). */
+function stampKey(configFile: string | undefined, dir: string, out: string, opts: BuildFlags): string {
+  return JSON.stringify({
+    program: programFingerprint(),
+    version: PROGRAM_VERSION,
+    config: configFile === undefined ? null : resolve(configFile),
+    dir: resolve(dir),
+    out: resolve(out),
+    title: opts.title ?? null,
+    epoch: process.env.SOURCE_DATE_EPOCH ?? null,
+  });
+}
+
+function cacheDirOf(out: string, opts: BuildFlags): string | null {
+  return opts.cache === false ? null : opts.cacheDir ? resolve(opts.cacheDir) : defaultCacheDir(out);
+}
+
+/** The last build's sessions when nothing it read or was asked has changed since; else null. */
+function lastBuildIfUnchanged(dirArg: string | undefined, opts: BuildFlags) {
+  // With --pdf the records are printed afresh, so the build runs in full.
+  if (opts.pdf) return null;
+  const configFile = configFileOf(opts);
+  const config = unvalidatedConfig(configFile);
+  if (config === null) return null;
+  const { dir, out } = placesOf(config, dirArg, opts);
+  const cacheDir = cacheDirOf(out, opts);
+  if (dir === null || cacheDir === null) return null;
+  // A killed build's staging folder is cleaned up by the next full build.
+  if (hasLeftovers(resolve(out))) return null;
+  try {
+    const sessions = stillUpToDate(
+      cacheDir,
+      resolve(out),
+      stampKey(configFile, dir, out, opts),
+      listSessionFiles(dir),
+    );
+    return sessions && { sessions, dir, out };
+  } catch {
+    return null; // An unlistable folder: the full build reports it.
+  }
+}
+
+/** The files shipped with the program that a build reads: line lists, priors, groups, templates. */
+function bundledFiles(): string[] {
+  const data = bundledDataDir();
+  const files = (dir: string) => {
+    try {
+      return readdirSync(dir, { withFileTypes: true })
+        .filter((e) => e.isFile())
+        .map((e) => join(dir, e.name));
+    } catch {
+      return [];
+    }
+  };
+  return [...files(data), ...files(join(data, 'lines')), ...files(join(data, '..', 'templates'))];
+}
+
+/** What a session's report needs from a build, from the build itself or from the stamp. */
+interface Outcome {
+  sessions: readonly StampedSession[];
+  failed: number;
+  /** How it went, for --verbose. */
+  detail: string;
+  timings: BuildReport['timings'] | null;
+}
+
+function printOutcome(o: Outcome, dir: string, out: string, opts: BuildFlags): void {
+  for (const s of o.sessions) {
+    const shown = !s.ok ? s.diagnostics : opts.quiet ? [] : s.warnings;
+    if (shown.length === 0) continue;
+    // The same safe read as the build (no huge file, no link out of the folder) for the source lines.
+    const input = readSessionInput(s.file, dir);
+    printDiagnostics(
+      shown,
+      input && 'bytes' in input ? Buffer.from(input.bytes).toString('utf8') : undefined,
+    );
+  }
+  const built = o.sessions.length - o.failed;
+  if (!opts.quiet || o.failed > 0) {
+    process.stderr.write(
+      `lineledger: built ${built} of ${o.sessions.length} sessions into ${out}${o.failed ? `; ${o.failed} failed` : ''}${opts.verbose ? ` (${o.detail})` : ''}\n`,
+    );
+    const t = o.timings;
+    if (opts.verbose && t) {
+      const ms = (x: number) => `${Math.round(x)} ms`;
+      process.stderr.write(
+        `lineledger: time: reading and cache lookup ${ms(t.prepare_ms)}, sessions ${ms(t.sessions_ms)}, index ${ms(t.index_ms)}, swap and cache upkeep ${ms(t.finish_ms)}\n`,
+      );
+    }
+  }
 }
 
 async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<number> {
-  const { config, dir, out } = plan(dirArg, opts);
+  const started = performance.now();
+  const known = lastBuildIfUnchanged(dirArg, opts);
+  if (known !== null) {
+    const failed = known.sessions.filter((s) => !s.ok).length;
+    const ms = Math.round(performance.now() - started);
+    const detail = `nothing changed since the last build: the site was left as it was, ${ms} ms`;
+    printOutcome({ sessions: known.sessions, failed, detail, timings: null }, known.dir, known.out, opts);
+    return failed > 0 ? EXIT_PROBLEMS : EXIT_OK;
+  }
+
+  const configFile = configFileOf(opts);
+  // Identities before the files are read: an edit during the build shows next time.
+  const configRead = identitiesOf(configFile === undefined ? [] : [resolve(configFile)]);
+  const { config, dir, out, loadCatalogFor } = await plan(dirArg, opts);
+  const read: FileRead[] = [
+    ...configRead,
+    ...identitiesOf([...config.catalogs.flatMap((c) => [c.lines, c.sources]), ...bundledFiles()]),
+  ];
+  const key = stampKey(configFile, dir, out, opts);
+  const epochText = process.env.SOURCE_DATE_EPOCH;
+  const { buildSite, readSourceDateEpoch } = await import('../build.js');
   const catalog = loadCatalogFor(config);
   const verbosity: Verbosity = opts.quiet ? 'quiet' : opts.verbose ? 'verbose' : 'normal';
   const progress = createProgress({
@@ -59,9 +208,8 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
     isTTY: process.stderr.isTTY === true,
     verbosity,
   });
-  const epoch = readSourceDateEpoch(process.env.SOURCE_DATE_EPOCH);
+  const epoch = readSourceDateEpoch(epochText);
   if (epoch.problem) process.stderr.write(`lineledger: warning: ${escapeControls(epoch.problem)}\n`);
-  const started = performance.now();
   const report = await buildSite(
     {
       inputDir: dir,
@@ -73,14 +221,16 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
       },
       instrumentDefaults: config.defaultInstrument,
       programVersion: PROGRAM_VERSION,
-      sourceDateEpoch: process.env.SOURCE_DATE_EPOCH,
+      sourceDateEpoch: epochText,
       jobs: parseJobs(opts.jobs),
       durable: opts.fsync === true,
       pdf: opts.pdf === true,
-      cacheDir: opts.cache === false ? null : opts.cacheDir ? resolve(opts.cacheDir) : undefined,
+      cacheDir: cacheDirOf(out, opts),
       configDir: config.file ? dirname(resolve(config.file)) : null,
       onStart: (n) => progress.start(n),
       onSession: (e) => progress.session(e),
+      // A --pdf build links the PDFs from its pages: not the site a plain build would make.
+      stamp: opts.pdf ? undefined : { key, read },
     },
     catalog,
   )
@@ -89,29 +239,8 @@ async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<
       throw new CommandFailure(`build failed: ${e.message}`);
     })
     .finally(() => progress.finish());
-  for (const s of report.sessions) {
-    // The same safe read as the build (no huge file, no link out of the folder) for the source lines.
-    const input = readSessionInput(s.file, dir);
-    const text = input && 'bytes' in input ? Buffer.from(input.bytes).toString('utf8') : undefined;
-    if (!s.ok) printDiagnostics(s.diagnostics, text);
-    else if (!opts.quiet) printDiagnostics(s.warnings, text);
-  }
-  const built = report.sessions.length - report.failed;
-  if (!opts.quiet || report.failed > 0) {
-    const detail = opts.verbose
-      ? ` (${report.cached} from the cache, ${report.computed} computed${report.jobs > 1 ? ` on ${report.jobs} threads` : ''}, ${Math.round(performance.now() - started)} ms)`
-      : '';
-    process.stderr.write(
-      `lineledger: built ${built} of ${report.sessions.length} sessions into ${out}${report.failed ? `; ${report.failed} failed` : ''}${detail}\n`,
-    );
-    if (opts.verbose) {
-      const t = report.timings;
-      const ms = (x: number) => `${Math.round(x)} ms`;
-      process.stderr.write(
-        `lineledger: time: reading and cache lookup ${ms(t.prepare_ms)}, sessions ${ms(t.sessions_ms)}, index ${ms(t.index_ms)}, swap and cache upkeep ${ms(t.finish_ms)}\n`,
-      );
-    }
-  }
+  const detail = `${report.cached} from the cache, ${report.computed} computed${report.jobs > 1 ? ` on ${report.jobs} threads` : ''}, ${Math.round(performance.now() - started)} ms`;
+  printOutcome({ ...report, detail }, dir, out, opts);
   if (opts.pdf) {
     const pdfCode = await writePdfs(
       out,
@@ -148,8 +277,11 @@ async function writePdfs(
 }
 
 /** Folders to watch, each with the names in it that matter (null: every session file). */
-function watchTargets(dirArg: string | undefined, opts: BuildFlags): Map<string, Set<string> | null> {
-  const { config, dir } = plan(dirArg, opts);
+async function watchTargets(
+  dirArg: string | undefined,
+  opts: BuildFlags,
+): Promise<Map<string, Set<string> | null>> {
+  const { config, dir } = await plan(dirArg, opts);
   const targets = new Map<string, Set<string> | null>([[resolve(dir), null]]);
   const add = (file: string) => {
     const d = dirname(resolve(file));
@@ -192,10 +324,10 @@ async function watchAndBuild(dirArg: string | undefined, opts: BuildFlags): Prom
       code = e.exitCode;
     }
   };
-  const rewatch = () => {
+  const rewatch = async () => {
     let targets: Map<string, Set<string> | null>;
     try {
-      targets = watchTargets(dirArg, opts);
+      targets = await watchTargets(dirArg, opts);
     } catch {
       return; // A broken config was reported by the build; keep the folders watched so far.
     }
@@ -221,7 +353,7 @@ async function watchAndBuild(dirArg: string | undefined, opts: BuildFlags): Prom
     do {
       again = false;
       await once();
-      rewatch();
+      await rewatch();
     } while (again);
     running = false;
     if (!opts.quiet) process.stderr.write('lineledger: watching for changes (Ctrl-C to stop)\n');
@@ -258,7 +390,7 @@ export function registerBuild(program: Command, done: (code: number) => void): v
     .option('-v, --verbose', 'print a line per session with its status and time')
     .option(
       '-j, --jobs <n>',
-      'threads computing sessions, this one included: a number, or auto (serial for small archives and on one or two cores, where a second thread costs more than it saves)',
+      'threads of the build, this one included: a number, or auto (serial for small archives and on one core; on two cores a render thread beside this one)',
       'auto',
     )
     .option('--no-cache', 'rebuild every session and keep no cache')

@@ -1,30 +1,12 @@
-/** What every command shares: exit codes, printing diagnostics, the config and the catalog. */
+/** What every command shares: exit codes and printing diagnostics (./output.ts), the config and the catalog. */
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { CONFIG_FILE_NAME, defaultConfig, type ProjectConfig, readProjectConfig } from '../config/read.js';
-import { type Diagnostic, formatDiagnosticsWithSource } from '../diagnostics.js';
 import { loadCatalog } from '../lines/load.js';
 import type { Catalog } from '../lines/types.js';
+import { CommandFailure, printDiagnostics } from './output.js';
 
-export const EXIT_OK = 0;
-export const EXIT_PROBLEMS = 1;
-export const EXIT_CANNOT_RUN = 2;
-
-/** Thrown inside a command to stop with a message and an exit code (caught in cli.ts). */
-export class CommandFailure extends Error {
-  constructor(
-    message: string,
-    readonly exitCode: number = EXIT_CANNOT_RUN,
-  ) {
-    super(message);
-  }
-}
-
-export function printDiagnostics(diagnostics: readonly Diagnostic[], sourceText?: string): void {
-  // One write per file: 50,000 problems are one string, not 50,000 system calls.
-  const lines = formatDiagnosticsWithSource(diagnostics, sourceText);
-  if (lines.length > 0) process.stderr.write(`${lines.join('\n')}\n`);
-}
+export { CommandFailure, EXIT_CANNOT_RUN, EXIT_OK, EXIT_PROBLEMS, printDiagnostics } from './output.js';
 
 export function readTextOrUndefined(file: string): string | undefined {
   try {

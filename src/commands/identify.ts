@@ -1,7 +1,7 @@
 /** `lineledger identify FILE [--json]`: one session, reduced and identified, printed. */
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
-import { readProfileInput } from '../build.js';
+import { readProfileInput } from '../input/sessionFiles.js';
 import { runSession } from '../pipeline.js';
 import { display, fixed, percent, probability } from '../report/format.js';
 import { buildResult, type ResultJson } from '../report/result.js';

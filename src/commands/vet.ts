@@ -7,9 +7,9 @@
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
-import { readProfileInput, readSessionInput } from '../build.js';
 import { compareDiagnostics, type Diagnostic } from '../diagnostics.js';
 import { candidateSpecies } from '../identify/candidates.js';
+import { readProfileInput, readSessionInput } from '../input/sessionFiles.js';
 import type { Catalog } from '../lines/types.js';
 import { outOfRangeWarnings } from '../reduce/range.js';
 import { reduceSession } from '../reduce/reduce.js';

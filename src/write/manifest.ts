@@ -7,15 +7,12 @@
  * edited file is simply written afresh.
  */
 import { createHash } from 'node:crypto';
-import { readdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
+import { readdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
+import { type FileIdentity, identityOf, sameIdentity } from '../cache/identity.js';
 
-export interface ManifestEntry {
+export interface ManifestEntry extends FileIdentity {
   sha256: string;
-  size: number;
-  ino: number;
-  ctimeMs: number;
-  mtimeMs: number;
 }
 
 export interface Manifest {
@@ -33,15 +30,6 @@ export function contentHash(contents: string | Uint8Array): string {
   return createHash('sha256').update(contents).digest('hex');
 }
 
-function identity(path: string): Omit<ManifestEntry, 'sha256'> | null {
-  try {
-    const s = statSync(path);
-    return s.isFile() ? { size: s.size, ino: s.ino, ctimeMs: s.ctimeMs, mtimeMs: s.mtimeMs } : null;
-  } catch {
-    return null;
-  }
-}
-
 export function readManifest(path: string, outDir: string): Manifest | null {
   try {
     const m = JSON.parse(readFileSync(path, 'utf8')) as Manifest;
@@ -56,15 +44,7 @@ export function verifiedFiles(manifest: Manifest | null): Map<string, string> {
   const ok = new Map<string, string>();
   if (!manifest) return ok;
   for (const [path, entry] of Object.entries(manifest.files)) {
-    const now = identity(join(manifest.out, path));
-    if (
-      now &&
-      now.size === entry.size &&
-      now.ino === entry.ino &&
-      now.ctimeMs === entry.ctimeMs &&
-      now.mtimeMs === entry.mtimeMs
-    )
-      ok.set(path, entry.sha256);
+    if (sameIdentity(identityOf(join(manifest.out, path)), entry)) ok.set(path, entry.sha256);
   }
   return ok;
 }
@@ -88,7 +68,7 @@ export function writeManifest(path: string, outDir: string, hashes: ReadonlyMap<
   const out = resolve(outDir);
   const files: Record<string, ManifestEntry> = {};
   for (const [p, sha256] of [...hashes].sort((a, b) => (a[0] < b[0] ? -1 : 1))) {
-    const id = identity(join(out, p));
+    const id = identityOf(join(out, p));
     if (id) files[p] = { sha256, ...id };
   }
   const tmp = `${path}.${process.pid}.tmp`;

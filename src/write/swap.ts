@@ -56,6 +56,15 @@ function leftovers(out: string): Leftover[] {
   return found;
 }
 
+/** Whether a killed build left a staging or set-aside folder beside the site (the next build repairs it). */
+export function hasLeftovers(out: string): boolean {
+  try {
+    return leftovers(out).length > 0;
+  } catch {
+    return false; // No parent folder to list: nothing was left there.
+  }
+}
+
 /** A build killed mid-swap moved the old site aside: put the newest such folder back. */
 export function recoverInterruptedSwap(out: string): void {
   if (existsSync(out)) return;

@@ -156,9 +156,15 @@ describe('build --cache-dir: refused', () => {
   it('accepts its own cache again', () => {
     const p = project();
     expect(lineledger(['build', 'sessions', '--out', 'site', '--cache-dir', 'c'], p).code).toBe(0);
+    // A second session rebuilds the site (no up-to-date skip); the first comes from the cache.
+    const first = join(p, 'sessions', '2026-03-14-tube-b.yaml');
+    writeFileSync(
+      join(p, 'sessions', '2026-03-15-tube-b.yaml'),
+      readFileSync(first, 'utf8').replace(/^id: .*$/m, 'id: tube-b-copy'),
+    );
     const again = lineledger(['build', 'sessions', '--out', 'site', '--cache-dir', 'c', '--verbose'], p);
     expect(again.code, again.stderr).toBe(0);
-    expect(again.stderr).toContain('1 from the cache');
+    expect(again.stderr).toContain('1 from the cache, 1 computed');
   });
 });
 

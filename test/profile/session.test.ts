@@ -2,7 +2,7 @@ import { mkdirSync, mkdtempSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { readProfileInput } from '../../src/build.js';
+import { readProfileInput } from '../../src/input/sessionFiles.js';
 import { readSessionText } from '../../src/session/read.js';
 import { fitsFile, primary } from './fitsWriter.js';
 
