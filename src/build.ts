@@ -9,6 +9,7 @@ import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { programFingerprint } from './cache/fingerprint.js';
 import { contextKey, sessionKey } from './cache/key.js';
+import { ProfileRefMemo } from './cache/profileRefs.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
 import { type FileRead, removeStamp, writeStamp } from './cache/upToDate.js';
 import { type Diagnostic, escapeControls } from './diagnostics.js';
@@ -242,7 +243,9 @@ export async function buildSite(
     instrumentDefaults,
   });
   // Unreadable files have no key: they are never cached.
-  const profiles = inputs.map((i) => ('bytes' in i ? readProfileInput(i.path, i.bytes, read) : null));
+  const refs = store ? new ProfileRefMemo(store.dir) : null;
+  const refOf = refs ? (bytes: Uint8Array) => refs.refOf(bytes) : undefined;
+  const profiles = inputs.map((i) => ('bytes' in i ? readProfileInput(i.path, i.bytes, read, refOf) : null));
   if (profiles.some((p) => p !== null && 'problem' in p)) stampable = false;
   const keys = inputs.map((i, n) =>
     'bytes' in i ? sessionKey(context, i.path.replace(/^.*[\\/]/, ''), i.bytes, profiles[n] ?? null) : '',
@@ -390,6 +393,7 @@ export async function buildSite(
   }
   if (manifestPath) writeManifest(manifestPath, options.outDir, staging.hashes);
   store?.prune(new Set(keys), usedCharts);
+  refs?.save();
   if (store && options.stamp && stampable)
     writeStamp(store.dir, options.outDir, {
       key: options.stamp.key,

@@ -4,13 +4,13 @@
  * renamed, so a killed build leaves whole entries or none; an unreadable entry is a miss.
  * A `fingerprint` file names the program that wrote the cache; another program starts afresh.
  */
-import { randomBytes } from 'node:crypto';
-import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
-import { threadId } from 'node:worker_threads';
 import type { SessionUnit } from '../parallel/unit.js';
 import type { SessionPart, SiteFile } from '../report/site.js';
 import { contentHash, siteFileData } from '../write/manifest.js';
+import { writeAtomically } from './atomicWrite.js';
+import { PROFILE_REFS_FILE } from './profileRefs.js';
 import { STAMP_FILE } from './upToDate.js';
 
 export interface FileRef {
@@ -29,12 +29,6 @@ export const CACHE_DIR_NAME = '.lineledger-cache';
 export function defaultCacheDir(outDir: string): string {
   const out = resolve(outDir);
   return join(dirname(out), CACHE_DIR_NAME, basename(out));
-}
-
-function writeAtomically(path: string, contents: string): void {
-  const tmp = `${path}.${process.pid}-${threadId}-${randomBytes(4).toString('hex')}.tmp`;
-  writeFileSync(tmp, contents);
-  renameSync(tmp, path);
 }
 
 function readOrUndefined(path: string): string | undefined {
@@ -123,6 +117,7 @@ export class SessionStore {
         this.chartDir,
         join(dir, 'site-manifest.json'),
         join(dir, STAMP_FILE),
+        join(dir, PROFILE_REFS_FILE),
         stamp,
       ])
         rmSync(own, { recursive: true, force: true });

@@ -6,10 +6,11 @@
  * Any doubt (a file listed, removed, touched or edited, other options, another program) means
  * a full build, which removes the stamp before it starts and writes a new one when it succeeds.
  */
-import { readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Diagnostic } from '../diagnostics.js';
 import { readManifest, verifiedFiles } from '../write/manifest.js';
+import { writeAtomically } from './atomicWrite.js';
 import { type FileIdentity, identityOf, sameIdentity } from './identity.js';
 
 export const STAMP_FILE = 'up-to-date.json';
@@ -62,9 +63,7 @@ export function writeStamp(
   const site = identityOf(outDir, true);
   if (site === null) return;
   const path = join(cacheDir, STAMP_FILE);
-  const tmp = `${path}.${process.pid}.tmp`;
-  writeFileSync(tmp, JSON.stringify({ version: STAMP_VERSION, site, ...stamp } satisfies UpToDateStamp));
-  renameSync(tmp, path);
+  writeAtomically(path, JSON.stringify({ version: STAMP_VERSION, site, ...stamp } satisfies UpToDateStamp));
 }
 
 /** Before a build changes anything: the stamp no longer vouches for the site. */

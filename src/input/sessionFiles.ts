@@ -158,8 +158,9 @@ export function readProfileInput(
   sessionPath: string,
   sessionBytes: Uint8Array,
   read?: { path: string; identity: FileIdentity }[],
+  refOf: (bytes: Uint8Array) => string | null = profileFileOf,
 ): ProfileInput | null {
-  const name = profileFileOf(sessionBytes);
+  const name = refOf(sessionBytes);
   if (name === null) return null;
   const folder = dirname(resolve(sessionPath));
   const problem = (code: string, message: string, hint: string): ProfileInput => ({

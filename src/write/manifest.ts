@@ -7,8 +7,9 @@
  * edited file is simply written afresh.
  */
 import { createHash } from 'node:crypto';
-import { readdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
+import { writeAtomically } from '../cache/atomicWrite.js';
 import { type FileIdentity, identityOf, sameIdentity } from '../cache/identity.js';
 
 export interface ManifestEntry extends FileIdentity {
@@ -71,7 +72,5 @@ export function writeManifest(path: string, outDir: string, hashes: ReadonlyMap<
     const id = identityOf(join(out, p));
     if (id) files[p] = { sha256, ...id };
   }
-  const tmp = `${path}.${process.pid}.tmp`;
-  writeFileSync(tmp, JSON.stringify({ out, files } satisfies Manifest));
-  renameSync(tmp, path);
+  writeAtomically(path, JSON.stringify({ out, files } satisfies Manifest));
 }
