@@ -169,14 +169,41 @@ const keep = (t: Table, r: ImportedRow) =>
 /** Two kept lines of a species closer than this are one line to the catalog (its checks). */
 const MIN_GAP_NM = 0.001;
 
+/**
+ * Below each spectrum's threshold, the catalog also keeps its next strongest lines, down to the
+ * FAINT_LINES-th strongest line of the spectrum in range, flagged `faint`. Identification never
+ * weighs a faint line as evidence for or against its species (so the chance model sees the
+ * same density as before); it only assigns a measured line that nothing else explains to a
+ * faint line of a species the explanation already holds (docs/identification.md, "Faint lines").
+ */
+const FAINT_LINES = 250;
+
+/** Lines closer than MIN_GAP_NM merged into one, the stronger's wavelength, flagged as a blend. */
+function mergeClose(rows: readonly ImportedRow[]): ImportedRow[] {
+  const kept: ImportedRow[] = [];
+  for (const r of rows) {
+    const last = kept.at(-1);
+    if (last && r.vacuum_nm - last.vacuum_nm <= MIN_GAP_NM) {
+      const strong = r.intensity > last.intensity ? r : last;
+      const flags = [...new Set([...last.flags, ...r.flags, 'blend'])];
+      kept[kept.length - 1] = { ...strong, intensity: Math.max(r.intensity, last.intensity), flags };
+      continue;
+    }
+    kept.push(r);
+  }
+  return kept;
+}
+
 function fail(message: string): never {
   process.stderr.write(`catalog:nist: ${message}\n`);
   process.exit(1);
 }
 
 interface Imported {
-  table: Table;
+  table: Table & { faint_min_intensity: number };
   rows: ImportedRow[];
+  /** Lines below the threshold kept as faint (flag `faint`), none within MIN_GAP_NM of a kept one. */
+  faint: ImportedRow[];
   all_in_range: number;
   observed: number;
 }
@@ -201,21 +228,21 @@ function importTable(table: Table): Imported {
     const sorted = inRange.map((r) => r.intensity).sort((a, b) => b - a);
     t = { ...t, min_intensity: Math.max(2, sorted[Math.min(TOP, sorted.length) - 1] ?? 2) };
   }
-  const kept: ImportedRow[] = [];
-  for (const r of inRange.filter((x) => keep(t, x))) {
-    const last = kept.at(-1);
-    if (last && r.vacuum_nm - last.vacuum_nm <= MIN_GAP_NM) {
-      // Closer than the catalog tells lines apart: one line, the stronger's wavelength, a blend.
-      const strong = r.intensity > last.intensity ? r : last;
-      const flags = [...new Set([...last.flags, ...r.flags, 'blend'])];
-      kept[kept.length - 1] = { ...strong, intensity: Math.max(r.intensity, last.intensity), flags };
-      continue;
-    }
-    kept.push(r);
-  }
+  // Closer than the catalog tells lines apart: one line, the stronger's wavelength, a blend.
+  const kept = mergeClose(inRange.filter((x) => keep(t, x)));
+  const stated = inRange
+    .filter((r) => r.intensity_stated)
+    .map((r) => r.intensity)
+    .sort((a, b) => b - a);
+  const faintMin = stated[Math.min(FAINT_LINES, stated.length) - 1] ?? Number.POSITIVE_INFINITY;
+  const nearKept = (r: ImportedRow) => kept.some((k) => Math.abs(k.vacuum_nm - r.vacuum_nm) <= MIN_GAP_NM);
+  const faint = mergeClose(
+    inRange.filter((r) => r.intensity_stated && !keep(t, r) && r.intensity >= faintMin && !nearKept(r)),
+  ).map((r) => ({ ...r, flags: [...r.flags, 'faint'] }));
   return {
-    table: t,
+    table: { ...t, faint_min_intensity: faintMin },
     rows: kept,
+    faint,
     all_in_range: inRange.length,
     observed: kept.filter((r) => r.basis === 'observed').length,
   };
@@ -234,10 +261,15 @@ const nistTsv = [
   '# Rel. Int. descriptors become flags (docs/catalog.md). Intensities compare only within one spectrum.',
   ...imported.map(
     (i) =>
-      `#   ${i.table.species.padEnd(6)} ${i.table.file.padEnd(16)} Rel. Int. >= ${String(i.table.min_intensity).padEnd(6)} ${String(i.rows.length).padStart(4)} of ${i.all_in_range} lines in range (${i.observed} observed, ${i.rows.length - i.observed} Ritz)`,
+      `#   ${i.table.species.padEnd(6)} ${i.table.file.padEnd(16)} Rel. Int. >= ${String(i.table.min_intensity).padEnd(6)} ${String(i.rows.length).padStart(4)} of ${i.all_in_range} lines in range (${i.observed} observed, ${i.rows.length - i.observed} Ritz); faint ${String(i.faint.length).padStart(4)} more down to Rel. Int. ${i.table.faint_min_intensity}`,
   ),
+  `# Faint rows (flag "faint"): the next strongest lines, down to the ${FAINT_LINES}th strongest of the spectrum in range; never weighed as evidence.`,
   CATALOG_COLUMNS.join('\t'),
-  ...imported.flatMap((i) => i.rows.map((r) => catalogRow(r, sourceKey(i.table)))),
+  ...imported.flatMap((i) =>
+    [...i.rows, ...i.faint]
+      .sort((a, b) => a.vacuum_nm - b.vacuum_nm)
+      .map((r) => catalogRow(r, sourceKey(i.table))),
+  ),
 ].join('\n');
 
 const hydrogenic = HYDROGENIC_SPECTRA.flatMap((s) => hydrogenicLines(s, ...HYDROGENIC_RANGE_NM));
@@ -313,13 +345,15 @@ const outputs: [string, string][] = [
 
 for (const i of imported)
   console.log(
-    `${i.table.species.padEnd(6)} Rel. Int. >= ${String(i.table.min_intensity).padEnd(6)} ${String(i.rows.length).padStart(4)} lines (of ${i.all_in_range} in ${RANGE_NM.join('–')} nm)  key ${sourceKey(i.table)}`,
+    `${i.table.species.padEnd(6)} Rel. Int. >= ${String(i.table.min_intensity).padEnd(6)} ${String(i.rows.length).padStart(4)} lines, faint ${String(i.faint.length).padStart(4)} (>= ${i.table.faint_min_intensity}) (of ${i.all_in_range} in ${RANGE_NM.join('–')} nm)  key ${sourceKey(i.table)}`,
   );
 for (const s of HYDROGENIC_SPECTRA)
   console.log(
     `${s.species.padEnd(6)} computed ${hydrogenic.filter((l) => l.species === s.species).length} lines`,
   );
-console.log(`read from NIST ASD: ${imported.reduce((n, i) => n + i.rows.length, 0)} rows`);
+console.log(
+  `read from NIST ASD: ${imported.reduce((n, i) => n + i.rows.length, 0)} rows weighed, ${imported.reduce((n, i) => n + i.faint.length, 0)} faint`,
+);
 
 if (CHECK) {
   const stale = outputs.filter(([path, text]) => !existsSync(path) || readFileSync(path, 'utf8') !== text);

@@ -44,7 +44,7 @@ export function formatRanking(title: string, id: string, result: ResultJson): st
     // Rest frame, like the reference it is compared with (equal to observed without a shift).
     const lineNm = display(l.rest_vacuum_nm, result.medium);
     out.push(
-      `  ${String(l.index + 1).padStart(4)}  ${fixed(lineNm, 3).padStart(19)}  ${l.status.padEnd(11)}  ${a ? `${a.display} ${fixed(display(a.ref_vacuum_nm, result.medium), 3)} (${a.residual_nm >= 0 ? '+' : ''}${fixed(a.residual_nm, 3)} nm${l.status === 'tentative' ? `, ${percent(l.probability)}` : ''})` : '—'}`,
+      `  ${String(l.index + 1).padStart(4)}  ${fixed(lineNm, 3).padStart(19)}  ${l.status.padEnd(11)}  ${a ? `${a.display}${a.faint ? ' (faint line)' : ''} ${fixed(display(a.ref_vacuum_nm, result.medium), 3)} (${a.residual_nm >= 0 ? '+' : ''}${fixed(a.residual_nm, 3)} nm${l.status === 'tentative' ? `, ${percent(l.probability)}` : ''})` : '—'}`,
     );
   }
   return out.join('\n');

@@ -14,6 +14,7 @@ import { candidateSpecies, isTelluric } from './candidates.js';
 import { closePairs, describeClosePairs } from './closePairs.js';
 import { type EvidenceContext, evaluateSpecies } from './evidence.js';
 import { posterior, selectMixture, speciesPenalty } from './explain.js';
+import { type FaintContext, faintWeights, toFaintLine } from './faint.js';
 import type { MeasuredPoint } from './match.js';
 import {
   calibratedConfidence,
@@ -177,7 +178,9 @@ function withReadingOffset(
     correctedReduction = applyReadingOffset(reduction, fit);
     second = core(correctedReduction);
   }
-  const identified = (idn: Identification) => idn.lines.filter((l) => l.status === 'identified').length;
+  // Lines given to faint lines do not count: they follow the explanation, they do not test it.
+  const identified = (idn: Identification) =>
+    idn.lines.filter((l) => l.status === 'identified' && !(l.assignment && toFaintLine(l.assignment))).length;
   const gain = second.explanation.score - first.explanation.score;
   if (gain < 0 || identified(second) < identified(first)) return null;
   const display = (s: string) => second.display[s] ?? s;
@@ -269,7 +272,16 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
   const assignedByPoint = new Map(best.matches.map((m) => [m.line, m]));
   const chosenSet = new Set(best.species);
   const display = displayNames(pool, prepared, best.matches);
-  const lines: AssignedLine[] = sorted.map((line, i) => {
+  const faint: FaintContext = {
+    catalog,
+    species: best.species.filter((sp) => !isTelluric(catalog, sp)),
+    range_nm: range,
+    fwhm_nm: fwhm,
+    background_per_nm: ctx.background_per_nm,
+    leftovers: sorted.length - assignedByPoint.size,
+  };
+  const confirmed = (sp: string) => status === 'identified' && (shareOf.get(sp) ?? 0) >= IDENTIFIED_THRESHOLD;
+  const assigned: AssignedLine[] = sorted.map((line, i) => {
     const point = points[i] as MeasuredPoint;
     const m = assignedByPoint.get(i);
     let lineStatus: LineStatus = 'unexplained';
@@ -282,31 +294,34 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
       lineStatus =
         status === 'identified' && probability >= IDENTIFIED_THRESHOLD ? 'identified' : 'tentative';
     } else {
-      const guess = tentativeFor(point, prepared, evidence, chosenSet, ctx, penaltyOf);
+      const guess = tentativeFor(
+        point,
+        prepared,
+        evidence,
+        chosenSet,
+        ctx,
+        penaltyOf,
+        faintWeights(point, faint),
+      );
       if (guess && guess.probability >= TENTATIVE_MIN) {
         ref = guess.ref;
         probability = guess.probability;
-        lineStatus = 'tentative';
+        // A faint line of a confirmed species, and probably this line: identified with it.
+        lineStatus =
+          toFaintLine(ref) && confirmed(ref.species) && probability >= IDENTIFIED_THRESHOLD
+            ? 'identified'
+            : 'tentative';
       }
     }
     return {
       index: line.index,
       status: lineStatus,
       probability,
-      assignment: ref
-        ? {
-            species: ref.species,
-            display: displayName(ref.species, [ref.flags]),
-            ref_vacuum_nm: ref.vacuum_nm,
-            residual_nm: point.vacuum_nm - ref.vacuum_nm,
-            residual_km_s: residualVelocity_km_s(point.vacuum_nm - ref.vacuum_nm, ref.vacuum_nm),
-            blend: ref.members > 1,
-            flags: ref.flags,
-          }
-        : null,
+      assignment: ref ? assignmentOf(point, ref) : null,
       alternatives: alternativesFor(point, ref, prepared, evidence, fwhm),
     };
   });
+  const lines = assigned;
   lines.sort((a, b) => a.index - b.index);
   const unexplained = lines.filter((l) => l.status === 'unexplained').map((l) => l.index);
   const tentative = [
@@ -349,6 +364,18 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
   };
 }
 
+function assignmentOf(point: MeasuredPoint, ref: RefLine): NonNullable<AssignedLine['assignment']> {
+  return {
+    species: ref.species,
+    display: displayName(ref.species, [ref.flags]),
+    ref_vacuum_nm: ref.vacuum_nm,
+    residual_nm: point.vacuum_nm - ref.vacuum_nm,
+    residual_km_s: residualVelocity_km_s(point.vacuum_nm - ref.vacuum_nm, ref.vacuum_nm),
+    blend: ref.members > 1,
+    flags: ref.flags,
+  };
+}
+
 /** Each species in notation: from the flags of its lines assigned here, else of its lines in range. */
 function displayNames(
   pool: readonly string[],
@@ -367,6 +394,7 @@ function displayNames(
  * The best plausible assignment of a line the explanation leaves over: each candidate species'
  * nearest line in the window weighs exp(gain − prior penalty) against 1 for "background", so
  * the probability is that of the line coming from it rather than from chance or another species.
+ * Faint lines of the explained species (faint.ts) compete with the same weights.
  */
 function tentativeFor(
   point: MeasuredPoint,
@@ -375,9 +403,14 @@ function tentativeFor(
   chosen: ReadonlySet<string>,
   ctx: EvidenceContext,
   penaltyOf: (s: string) => number,
+  faint: readonly { ref: RefLine; weight: number }[],
 ): { ref: RefLine; probability: number } | null {
   let total = 1;
   let best: { ref: RefLine; weight: number } | null = null;
+  for (const f of faint) {
+    total += f.weight;
+    if (best === null || f.weight > best.weight) best = f;
+  }
   for (const e of evidence) {
     const p = prepared.get(e.species);
     if (!p) continue;

@@ -9,7 +9,9 @@
  * so a few lines cannot pull it far. It is applied only when it is significant (|a| ≥ 2.5 σ_a)
  * and the re-identified lines explain the session at least as well.
  */
+
 import type { MeasuredLine, Reduction } from '../reduce/types.js';
+import { toFaintLine } from './faint.js';
 import type { Identification, ScaleCorrection } from './types.js';
 
 /** How many standard errors make an offset or scale worth applying (common practice). */
@@ -34,7 +36,7 @@ function residualPoints(reduction: Reduction, idn: Identification): { points: Po
     const a = line.assignment;
     const measured = byIndex.get(line.index);
     // A blend's centre depends on its members' strengths at this resolution: not a fixed point.
-    if (line.status !== 'identified' || !a || a.blend || !measured) continue;
+    if (line.status !== 'identified' || !a || a.blend || toFaintLine(a) || !measured) continue;
     const sigma = Math.max(measured.rest_sigma_nm, 0.005);
     points.push({
       x_nm: measured.rest_vacuum_nm,

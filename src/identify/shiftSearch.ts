@@ -9,11 +9,13 @@
  * evidence is that of chance (score 0). This is the scan restricted to where it can matter,
  * so a scan over [0, 1] stays fast. Rest wavelengths are vacuum: (1 + z) = λ_obs,vac / λ_rest,vac.
  */
+
 import { lowerBound } from '../lines/search.js';
 import type { Catalog } from '../lines/types.js';
 import { redshiftFromVelocity, restFrame, velocityFromRedshift } from '../reduce/doppler.js';
 import type { Reduction } from '../reduce/types.js';
 import { candidateSpecies, isTelluric } from './candidates.js';
+import { toFaintLine } from './faint.js';
 import { calibratedConfidence, statusFor } from './model.js';
 import { relabel } from './relabel.js';
 import type { Identification, ScanPoint, ShiftFound } from './types.js';
@@ -208,7 +210,7 @@ function fitShift(
   const pts: { z: number; w: number }[] = [];
   for (const a of idn.lines) {
     const asg = a.assignment;
-    if (!asg || isTelluric(catalog, asg.species)) continue;
+    if (!asg || isTelluric(catalog, asg.species) || toFaintLine(asg)) continue;
     const line = byIndex.get(a.index);
     if (!line) continue;
     const zi = line.vacuum_nm / asg.ref_vacuum_nm - 1;

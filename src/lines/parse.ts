@@ -18,6 +18,9 @@ import {
   type SpeciesLines,
 } from './types.js';
 
+/** The flag of a row kept for assignment only, never weighed as evidence (types.ts Catalog.faint). */
+export const FAINT_FLAG = 'faint';
+
 export const CATALOG_COLUMNS = [
   'species',
   'vacuum_nm',
@@ -78,12 +81,15 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
   for (const file of input.lineFiles) rows.push(...parseLineFile(file, sources, problem));
 
   const bySpecies = new Map<string, Row[]>();
+  const faintBySpecies = new Map<string, Row[]>();
   for (const row of rows) {
-    const list = bySpecies.get(row.species) ?? [];
+    const into = row.flags.includes(FAINT_FLAG) ? faintBySpecies : bySpecies;
+    const list = into.get(row.species) ?? [];
     list.push(row);
-    bySpecies.set(row.species, list);
+    into.set(row.species, list);
   }
-  for (const list of bySpecies.values()) list.sort((a, b) => a.vacuum_nm - b.vacuum_nm);
+  for (const list of [...bySpecies.values(), ...faintBySpecies.values()])
+    list.sort((a, b) => a.vacuum_nm - b.vacuum_nm);
   const conditionRows: ConditionRow[] = [];
   for (const file of input.conditionFiles ?? [])
     conditionRows.push(...parseConditionFile(file, sources, problem));
@@ -95,21 +101,23 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
     },
     problem,
   );
+  const linesOf = (name: string, list: readonly Row[], byCondition: SpeciesLines['strengths']) => ({
+    species: name,
+    vacuum_nm: Float64Array.from(list, (r) => r.vacuum_nm),
+    air_nm: Float64Array.from(list, (r) => r.air_nm),
+    unc_nm: Float64Array.from(list, (r) => r.unc_nm),
+    intensity: Float64Array.from(list, (r) => r.intensity),
+    flags: list.map((r) => r.flags),
+    source: list.map((r) => r.source),
+    origin: list.map((r) => r.origin),
+    row: list.map((r) => r.where),
+    strengths: byCondition,
+  });
   const species = new Map<string, SpeciesLines>();
-  for (const [name, list] of bySpecies) {
-    species.set(name, {
-      species: name,
-      vacuum_nm: Float64Array.from(list, (r) => r.vacuum_nm),
-      air_nm: Float64Array.from(list, (r) => r.air_nm),
-      unc_nm: Float64Array.from(list, (r) => r.unc_nm),
-      intensity: Float64Array.from(list, (r) => r.intensity),
-      flags: list.map((r) => r.flags),
-      source: list.map((r) => r.source),
-      origin: list.map((r) => r.origin),
-      row: list.map((r) => r.where),
-      strengths: strengths.get(name) ?? new Map(),
-    });
-  }
+  for (const [name, list] of bySpecies)
+    species.set(name, linesOf(name, list, strengths.get(name) ?? new Map()));
+  const faint = new Map<string, SpeciesLines>();
+  for (const [name, list] of faintBySpecies) faint.set(name, linesOf(name, list, new Map()));
   const names = [...species.keys()].sort();
   const { groups, defaults } = input.groupsYaml
     ? parseGroups(input.groupsYaml, species, problem)
@@ -125,6 +133,7 @@ export function parseCatalog(input: CatalogInput): Outcome<Catalog> {
       version: input.version.trim(),
       sha256: catalogSha256(input),
       species,
+      faint,
       names,
       sources,
       groups,

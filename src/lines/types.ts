@@ -58,7 +58,14 @@ export interface Catalog {
   version: string;
   /** SHA-256 over the catalog files' bytes, in file-name order, each prefixed by its name. */
   sha256: string;
+  /** The lines identification weighs as evidence, by species. */
   species: ReadonlyMap<string, SpeciesLines>;
+  /**
+   * Rows flagged `faint`, by species: weaker lines kept so that a measured line nothing else
+   * explains can be assigned to a species the explanation holds, never weighed as evidence
+   * (docs/identification.md, "Faint lines"). Their `strengths` are always empty.
+   */
+  faint: ReadonlyMap<string, SpeciesLines>;
   /** Species names, sorted. */
   names: readonly string[];
   sources: ReadonlyMap<string, SourceCitation>;

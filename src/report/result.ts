@@ -2,8 +2,10 @@
  * The machine-readable result (DESIGN.md's contract), stored as result.json beside each record
  * and printed by `lineledger identify --json`. Field names are the contract: do not rename.
  */
+
 import type { Identification } from '../identify/types.js';
 import { countOrigins, type ReferenceOrigin, referenceOrigin } from '../lines/origin.js';
+import { FAINT_FLAG } from '../lines/parse.js';
 import type { Catalog } from '../lines/types.js';
 import type { FoundLine } from '../reduce/profile/find.js';
 import type { CalibrationResult, Reduction } from '../reduce/types.js';
@@ -43,6 +45,8 @@ export interface ResultJson {
       residual_nm: number;
       residual_km_s: number;
       blend: boolean;
+      /** A faint catalog line: it names a line left over, never evidence (docs/identification.md). */
+      faint: boolean;
       /** Where the reference value comes from: read from its source, recalled, or computed. */
       ref_origin: ReferenceOrigin | null;
     } | null;
@@ -229,6 +233,7 @@ export function buildResult(
               residual_nm: r(a.assignment.residual_nm),
               residual_km_s: r(a.assignment.residual_km_s, 3),
               blend: a.assignment.blend,
+              faint: a.assignment.flags.includes(FAINT_FLAG),
               ref_origin: originOf.get(l.index) ?? null,
             }
           : null,

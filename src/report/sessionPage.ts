@@ -359,7 +359,12 @@ export async function sessionPageModel(
         status:
           a?.status === 'tentative' ? `tentative (${percent(a.probability)})` : (a?.status ?? 'unexplained'),
         wavelength: fixed(display(l.rest_vacuum_nm, medium), 3),
-        species: asg ? speciesLabel(asg.species, asg.flags) + (asg.blend ? ' (blend)' : '') : '—',
+        species: asg
+          ? speciesLabel(asg.species, asg.flags) +
+            (asg.blend ? ' (blend)' : '') +
+            // A weak line of a species found on its strong ones (docs/identification.md, "Faint lines").
+            (asg.flags.includes('faint') ? ' (faint line)' : '')
+          : '—',
         reference: asg ? fixed(display(asg.ref_vacuum_nm, medium), 3) : '—',
         residual_nm: asg ? fixed(asg.residual_nm, 3) : '—',
         residual_km_s: asg ? fixed(asg.residual_km_s, 1) : '—',
