@@ -10,6 +10,7 @@ interface LookupFlags {
   species: string[];
   group: string[];
   vacuum?: boolean;
+  faint?: boolean;
   json?: boolean;
   config?: string;
 }
@@ -89,6 +90,7 @@ function lookup(wavelengthArg: string, opts: LookupFlags): number {
     window_nm,
     medium: opts.vacuum ? 'vacuum' : 'air',
     species: filter.value,
+    faint: opts.faint === true,
   };
   const { hits, nearest } = queryLines(catalog, query);
   if (opts.json) {
@@ -116,6 +118,7 @@ export function registerLookup(program: Command, done: (code: number) => void): 
     .option('--species <name>', 'look only in this species (repeatable)', collect, [])
     .option('--group <id>', 'look only in the species of this candidate group (repeatable)', collect, [])
     .option('--vacuum', 'the wavelength and the listing are vacuum wavelengths')
+    .option('--faint', 'also list faint lines (weak lines that name a leftover line, never evidence)')
     .option('--json', 'print the lines as JSON')
     .option('--config <file>', 'project config (default: ./lineledger.yaml when present)')
     .action((wavelength: string, opts: LookupFlags) => done(lookup(wavelength, opts)));

@@ -18,6 +18,8 @@ export interface LineQuery {
   medium: QueryMedium;
   /** Species to look in; null means every species of the catalog. */
   species: readonly string[] | null;
+  /** Also list faint lines (flag `faint`: weak lines never weighed as evidence). */
+  faint?: boolean;
 }
 
 export interface LineHit {
@@ -128,14 +130,15 @@ function labelFor(species: string, flags: readonly string[]): string {
   return species;
 }
 
-function hitAt(lines: SpeciesLines, k: number, query: LineQuery): LineHit {
+/** `both`: the species' weighed and faint lines, which rank together (one table's scale). */
+function hitAt(lines: SpeciesLines, k: number, query: LineQuery, both: readonly SpeciesLines[]): LineHit {
   const vacuum_nm = lines.vacuum_nm[k] as number;
   const air = lines.air_nm[k] as number;
   const air_nm = Number.isNaN(air) ? null : air;
   const wavelength_nm = query.medium === 'air' && air_nm !== null ? air_nm : vacuum_nm;
   const intensity = lines.intensity[k] as number;
   let stronger = 0;
-  for (const other of lines.intensity) if (other > intensity) stronger++;
+  for (const table of both) for (const other of table.intensity) if (other > intensity) stronger++;
   const flags = lines.flags[k] ?? [];
   return {
     species: lines.species,
@@ -147,7 +150,7 @@ function hitAt(lines: SpeciesLines, k: number, query: LineQuery): LineHit {
     unc_nm: lines.unc_nm[k] as number,
     intensity,
     intensity_rank: stronger + 1,
-    species_lines: lines.vacuum_nm.length,
+    species_lines: both.reduce((n, t) => n + t.vacuum_nm.length, 0),
     flags,
     source: lines.source[k] as string,
     origin: lines.origin[k] as LineOrigin,
@@ -177,20 +180,25 @@ export function queryLines(catalog: Catalog, query: LineQuery): LineQueryResult 
   const hits: LineHit[] = [];
   let nearest: LineHit | null = null;
   for (const name of query.species ?? catalog.names) {
-    const lines = catalog.species.get(name);
-    if (!lines) continue;
-    const [start, end] = windowRange(lines.vacuum_nm, from_vac, to_vac);
-    for (let k = start; k < end; k++) {
-      const hit = hitAt(lines, k, query);
-      // The medium conversion at the window's ends can differ from the line's own air value
-      // in the last digit; the window is defined in the query's medium, so check it there.
-      if (Math.abs(hit.distance_nm) <= query.window_nm + 1e-9) hits.push(hit);
-    }
-    const at = lowerBound(lines.vacuum_nm, centre_vac);
-    for (const k of [at - 1, at]) {
-      if (k < 0 || k >= lines.vacuum_nm.length) continue;
-      const hit = hitAt(lines, k, query);
-      if (nearest === null || byDistance(hit, nearest) < 0) nearest = hit;
+    // Faint lines rank with the species' other lines; they are listed only when asked for.
+    const both = [catalog.species.get(name), catalog.faint.get(name)].filter(
+      (t): t is SpeciesLines => t !== undefined,
+    );
+    const weighed = catalog.species.get(name);
+    for (const lines of query.faint ? both : both.filter((t) => t === weighed)) {
+      const [start, end] = windowRange(lines.vacuum_nm, from_vac, to_vac);
+      for (let k = start; k < end; k++) {
+        const hit = hitAt(lines, k, query, both);
+        // The medium conversion at the window's ends can differ from the line's own air value
+        // in the last digit; the window is defined in the query's medium, so check it there.
+        if (Math.abs(hit.distance_nm) <= query.window_nm + 1e-9) hits.push(hit);
+      }
+      const at = lowerBound(lines.vacuum_nm, centre_vac);
+      for (const k of [at - 1, at]) {
+        if (k < 0 || k >= lines.vacuum_nm.length) continue;
+        const hit = hitAt(lines, k, query, both);
+        if (nearest === null || byDistance(hit, nearest) < 0) nearest = hit;
+      }
     }
   }
   hits.sort(byDistance);

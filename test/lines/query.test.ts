@@ -17,12 +17,14 @@ const query = (q: Partial<LineQuery> & { wavelength_nm: number }): LineQuery => 
 function scan(q: LineQuery): string[] {
   const out: string[] = [];
   for (const name of q.species ?? catalog.names) {
-    const l = catalog.species.get(name);
-    if (!l) continue;
-    for (let k = 0; k < l.vacuum_nm.length; k++) {
-      const air = l.air_nm[k] as number;
-      const w = q.medium === 'air' && !Number.isNaN(air) ? air : (l.vacuum_nm[k] as number);
-      if (Math.abs(w - q.wavelength_nm) <= q.window_nm) out.push(`${name}@${l.vacuum_nm[k]}`);
+    // The weighed lines, and the faint ones when asked for.
+    for (const l of [catalog.species.get(name), q.faint ? catalog.faint.get(name) : undefined]) {
+      if (!l) continue;
+      for (let k = 0; k < l.vacuum_nm.length; k++) {
+        const air = l.air_nm[k] as number;
+        const w = q.medium === 'air' && !Number.isNaN(air) ? air : (l.vacuum_nm[k] as number);
+        if (Math.abs(w - q.wavelength_nm) <= q.window_nm) out.push(`${name}@${l.vacuum_nm[k]}`);
+      }
     }
   }
   return out.sort();
@@ -55,8 +57,9 @@ describe('lookup query', () => {
         fc.double({ min: 90, max: 1100, noNaN: true }),
         fc.double({ min: 0.01, max: 5, noNaN: true }),
         fc.constantFrom<'air' | 'vacuum'>('air', 'vacuum'),
-        (wavelength_nm, window_nm, medium) => {
-          const q = query({ wavelength_nm, window_nm, medium });
+        fc.boolean(),
+        (wavelength_nm, window_nm, medium, faint) => {
+          const q = query({ wavelength_nm, window_nm, medium, faint });
           const got = queryLines(catalog, q).hits.map((h) => `${h.species}@${h.vacuum_nm}`);
           expect(got.sort()).toEqual(scan(q));
         },
@@ -74,6 +77,18 @@ describe('lookup query', () => {
     const oiii = hits.find((h) => h.species === 'O III');
     expect(oiii?.label).toBe('[O III]');
     expect(Math.abs((oiii?.air_nm as number) - 500.684)).toBeLessThan(0.005);
+  });
+
+  it('shows faint lines when asked, ranked after the weighed ones (NIST ASD Hg I 491.607 nm air, Rel. Int. 20, table retrieved 2016-04-21)', () => {
+    const at = { wavelength_nm: 491.607, window_nm: 0.01, species: ['Hg I'] };
+    expect(queryLines(catalog, query(at)).hits).toEqual([]);
+    const { hits } = queryLines(catalog, query({ ...at, faint: true }));
+    const hit = hits.find((h) => Math.abs((h.air_nm as number) - 491.607) < 0.001);
+    expect(hit?.flags).toContain('faint');
+    expect(hit?.origin).toBe('read');
+    const weighed = catalog.species.get('Hg I')?.vacuum_nm.length ?? 0;
+    expect(hit?.intensity_rank).toBeGreaterThan(weighed);
+    expect(hit?.species_lines).toBe(weighed + (catalog.faint.get('Hg I')?.vacuum_nm.length ?? 0));
   });
 
   it('offers the nearest line when the window is empty', () => {
