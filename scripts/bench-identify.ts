@@ -5,6 +5,8 @@
  * shift recovery and a reliability table (stated confidence against observed accuracy).
  *   --seed N     seed (default 20261202)
  *   --n N        sessions per scenario (default 200)
+ *   --show-wrong   print each confidently wrong answer (--yaml: with its session)
+ *   --show-missed  print each mixture whose answer misses a gas of the truth
  *   --fit        also fit the Platt scaling of the confidence (src/identify/model.ts) on these results
  */
 import { writeFileSync } from 'node:fs';
@@ -141,6 +143,14 @@ if (args.includes('--show-wrong')) {
     );
     if (args.includes('--yaml')) console.log(r.yaml);
   }
+}
+
+if (args.includes('--show-missed')) {
+  // Mixtures where a gas of the truth is missing from the answer.
+  for (const r of results.filter((x) => x.truth.length > 1 && !x.truth.every((t) => x.answer.includes(t))))
+    console.log(
+      `MISSED ${r.scenario}: truth ${r.truth.join('+')} → ${r.answer.join('+') || 'nothing'} (${r.status} ${pct(r.confidence)}), ${r.lines} lines; contenders ${r.contenders.map((c) => `${c.species.join('+')} ${c.score.toFixed(1)}`).join(', ')}`,
+    );
 }
 
 console.log(

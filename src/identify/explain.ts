@@ -8,6 +8,7 @@
 import type { EvidenceContext } from './evidence.js';
 import { rankTerm } from './evidence.js';
 import { bestMatching } from './match.js';
+import { Q_STRONG } from './model.js';
 import type { ContendingExplanation, Match, PreparedSpecies, RefLine } from './types.js';
 
 /** Real nebulae and the solar spectrum need 8–15 species. */
@@ -71,6 +72,7 @@ export function scoreSet(
     fwhm_nm: ctx.fwhm_nm,
     background_per_nm: ctx.background_per_nm,
   });
+  missCost -= hiddenMissCost(picked, matches, ctx);
   let ranks = 0;
   for (const s of set)
     ranks += rankTerm(
@@ -81,6 +83,30 @@ export function scoreSet(
   let penalty = 0;
   for (const sp of set) penalty += penaltyOf(sp);
   return { species: [...set].sort(), total: missCost + gain + ranks - penalty, matches };
+}
+
+/**
+ * The miss cost of lines hidden under another species' matched line. Two lines of different
+ * species closer than one resolution element are one feature on the instrument: when the
+ * feature is matched to one of them, the other was not missed, it was not resolved. Its
+ * log(1 − q) is given back (as it was weighed in the species' completeness cost).
+ */
+function hiddenMissCost(
+  picked: readonly { ref: RefLine; q: number }[],
+  matches: readonly Match[],
+  ctx: EvidenceContext,
+): number {
+  if (matches.length === 0) return 0;
+  const used = new Set(matches.map((m) => m.ref));
+  let cost = 0;
+  for (const { ref, q } of picked) {
+    if (used.has(ref)) continue;
+    const hidden = matches.some(
+      (m) => m.ref.species !== ref.species && Math.abs(m.ref.vacuum_nm - ref.vacuum_nm) < ctx.fwhm_nm,
+    );
+    if (hidden) cost += (q === Q_STRONG ? ctx.strongMissWeight : ctx.missWeight) * Math.log1p(-q);
+  }
+  return cost;
 }
 
 export interface MixtureResult {
