@@ -43,15 +43,26 @@ function thresholdCandidates(refs: readonly RefLine[]): number[] {
   return picks;
 }
 
+const LOG_MISS_STRONG = Math.log1p(-Q_STRONG);
+const LOG_MISS_WEAK = Math.log1p(-Q_WEAK);
+
 export function detectionProbabilities(
   refs: readonly RefLine[],
   threshold: number,
   missWeight = 1,
   strongMissWeight = missWeight,
 ): { q: Float64Array; missCost: number } {
-  const q = Float64Array.from(refs, (r) => (r.intensity >= threshold ? Q_STRONG : Q_WEAK));
-  let missCost = 0;
-  for (const p of q) missCost += (p === Q_STRONG ? strongMissWeight : missWeight) * Math.log1p(-p);
+  // One plain loop: this runs for every species, detection limit and trial shift (hot).
+  const n = refs.length;
+  const q = new Float64Array(n);
+  let strong = 0;
+  for (let k = 0; k < n; k++) {
+    if ((refs[k] as RefLine).intensity >= threshold) {
+      q[k] = Q_STRONG;
+      strong++;
+    } else q[k] = Q_WEAK;
+  }
+  const missCost = strong * strongMissWeight * LOG_MISS_STRONG + (n - strong) * missWeight * LOG_MISS_WEAK;
   return { q, missCost };
 }
 

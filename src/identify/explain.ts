@@ -5,6 +5,8 @@
  * Occam factor), then the posterior over the explanations visited (the chosen set, each with
  * one species dropped, added or swapped).
  */
+
+import { lowerBound } from '../lines/search.js';
 import type { EvidenceContext } from './evidence.js';
 import { rankTerm } from './evidence.js';
 import { bestMatching } from './match.js';
@@ -97,13 +99,19 @@ function hiddenMissCost(
   ctx: EvidenceContext,
 ): number {
   if (matches.length === 0) return 0;
+  // Matched reference lines by wavelength, so each unmatched one looks up its neighbours.
+  const matched = [...matches].sort((a, b) => a.ref.vacuum_nm - b.ref.vacuum_nm);
+  const at = Float64Array.from(matched, (m) => m.ref.vacuum_nm);
   const used = new Set(matches.map((m) => m.ref));
   let cost = 0;
   for (const { ref, q } of picked) {
     if (used.has(ref)) continue;
-    const hidden = matches.some(
-      (m) => m.ref.species !== ref.species && Math.abs(m.ref.vacuum_nm - ref.vacuum_nm) < ctx.fwhm_nm,
-    );
+    let hidden = false;
+    for (let k = lowerBound(at, ref.vacuum_nm - ctx.fwhm_nm); k < at.length && !hidden; k++) {
+      const d = Math.abs((at[k] as number) - ref.vacuum_nm);
+      if ((at[k] as number) >= ref.vacuum_nm + ctx.fwhm_nm) break;
+      hidden = d < ctx.fwhm_nm && (matched[k] as Match).ref.species !== ref.species;
+    }
     if (hidden) cost += (q === Q_STRONG ? ctx.strongMissWeight : ctx.missWeight) * Math.log1p(-q);
   }
   return cost;
