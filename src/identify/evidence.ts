@@ -92,8 +92,14 @@ export function evaluateSpecies(
   const cols = touchedRefs(ctx.points, refCentres, maxUnc, ctx.fwhm_nm);
   let best: { llr: number; threshold: number; q: Float64Array; missCost: number; matches: Match[] } | null =
     null;
-  // Distrusted intensities: every line equally likely to show (one threshold below all).
-  for (const threshold of ctx.flatIntensities ? [0] : thresholdCandidates(refs)) {
+  // Distrusted intensities: every line equally likely to show (one threshold below all). With no
+  // line in reach nothing can match, and "none strong" (the last candidate) costs least.
+  const thresholds = ctx.flatIntensities
+    ? [0]
+    : cols.length === 0
+      ? [Number.POSITIVE_INFINITY]
+      : thresholdCandidates(refs);
+  for (const threshold of thresholds) {
     const { q, missCost } = detectionProbabilities(refs, threshold, ctx.missWeight, ctx.strongMissWeight);
     const { matches, gain } = bestMatching({
       lines: ctx.points,

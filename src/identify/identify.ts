@@ -115,7 +115,7 @@ export function identify(reduction: Reduction, catalog: Catalog): IdentifyOutcom
             z_from: redshiftFromVelocity(request.from_km_s),
             z_to: redshiftFromVelocity(request.to_km_s),
           };
-    const searched = searchShift(reduction, catalog, core, range);
+    const searched = searchShift(reduction, catalog, core, range, (r) => scoreAtRest(r, catalog));
     if (searched) {
       if (searched.found.warning) {
         warnings.push({
@@ -193,8 +193,14 @@ function withReadingOffset(
   };
 }
 
-/** Identification of lines already in their rest frame. */
-export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identification {
+/** The best explanation's score at rest, as identifyAtRest gives it, without the line-by-line part. */
+export function scoreAtRest(reduction: Reduction, catalog: Catalog): number {
+  const { mixture } = weighAtRest(reduction, catalog);
+  return mixture.best.species.length === 0 ? 0 : mixture.best.total;
+}
+
+/** The evidence of every candidate species and the chosen mixture, for lines in their rest frame. */
+function weighAtRest(reduction: Reduction, catalog: Catalog) {
   const { species: pool } = candidateSpecies(reduction.session, catalog);
   const priors = sessionPriors(reduction.session, catalog);
   const uninformed = speciesPenalty(Math.max(pool.length, 2));
@@ -255,6 +261,13 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
   }
 
   const mixture = selectMixture(evidence, prepared, ctx, penaltyOf, uninformed);
+  return { pool, priors, penaltyOf, sorted, points, fwhm, range, ctx, prepared, evidence, mixture };
+}
+
+/** Identification of lines already in their rest frame. */
+export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identification {
+  const { pool, priors, penaltyOf, sorted, points, fwhm, range, ctx, prepared, evidence, mixture } =
+    weighAtRest(reduction, catalog);
   const contenders = posterior(mixture.visited);
   for (const e of evidence) {
     e.confidence = contenders

@@ -54,6 +54,8 @@ export function searchShift(
   catalog: Catalog,
   core: CoreIdentify,
   range: { mode: 'redshift' | 'velocity'; z_from: number; z_to: number },
+  /** The best explanation's score at rest (0 when nothing beats chance): what `core` would give. */
+  scoreOf: (reduction: Reduction) => number = (r) => explanationScore(core(r)),
 ): { found: ShiftFound; identification: Identification; reduction: Reduction } | null {
   const lines = reduction.lines;
   if (lines.length === 0) return null;
@@ -106,12 +108,10 @@ export function searchShift(
     .slice(0, MAX_EVALUATED_BINS);
 
   const scan: ScanPoint[] = [];
-  let best: { z: number; score: number; idn: Identification } | null = null;
-  const evaluate = (z: number) => {
-    const idn = core(reductionAtShift(reduction, z, 0));
-    const score = explanationScore(idn);
-    return { z, score, idn };
-  };
+  let best: { z: number; score: number } | null = null;
+  // Each bin needs only the best explanation's score; the full identification (line by line)
+  // is made once, at the best bin.
+  const evaluate = (z: number) => ({ z, score: scoreOf(reductionAtShift(reduction, z, 0)) });
   for (const { bin } of promising) {
     const z = range.z_from + bin * step;
     const result = evaluate(z);
@@ -127,7 +127,7 @@ export function searchShift(
   // Refine: z from the matched lines by weighted least squares, re-identify, twice.
   let z = best.z;
   let zSigma = sigmaZ;
-  let idn = best.idn;
+  let idn = core(reductionAtShift(reduction, best.z, 0));
   let used = 0;
   for (let pass = 0; pass < 3; pass++) {
     const fit = fitShift(reduction, idn, catalog);
