@@ -127,4 +127,40 @@ describe('charts from shared shapes', () => {
     const other = shapeOf({ ...spec, description: 'e' } as TopLevelSpec);
     expect(other.key).toBe(shaped.key);
   });
+
+  it('take explicit scale domains out too, equal ones once, and draw other ranges and species the same as a full compile', async () => {
+    const chart = (lo: number, hi: number, species: string[]) =>
+      ({
+        data: {
+          values: species.map((s, i) => ({ x: lo + (i + 1) * ((hi - lo) / (species.length + 1)), s })),
+        },
+        layer: [
+          {
+            mark: 'tick',
+            encoding: {
+              x: { field: 'x', type: 'quantitative', scale: { domain: [lo, hi], zero: false, nice: false } },
+              color: { field: 's', type: 'nominal', scale: { domain: species } },
+            },
+          },
+          {
+            mark: 'point',
+            encoding: { x: { field: 'x', type: 'quantitative', scale: { domain: [lo, hi] } } },
+          },
+        ],
+      }) as unknown as TopLevelSpec;
+    const a = shapeOf(chart(400, 700, ['Hg I', 'Ne I']));
+    const b = shapeOf(chart(380, 720, ['He I', 'Ar I']));
+    expect(a.domains).toEqual([
+      [400, 700],
+      ['Hg I', 'Ne I'],
+    ]);
+    expect(b.key).toBe(a.key);
+    const before = chartRenderStats();
+    for (const spec of [chart(400, 700, ['Hg I', 'Ne I']), chart(380, 720, ['He I', 'Ar I'])])
+      expect((await renderChart(spec)).svg).toBe(await renderChartInFull(spec));
+    const after = chartRenderStats();
+    // Both drawn from one compiled shape, neither in full.
+    expect(after.fromShape - before.fromShape).toBe(2);
+    expect(after.shapesCompiled - before.shapesCompiled).toBe(1);
+  });
 });

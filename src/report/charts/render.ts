@@ -9,7 +9,7 @@
 import { createHash } from 'node:crypto';
 import type { TopLevelSpec } from 'vega-lite';
 import { sharedCodegen } from './codegen.js';
-import { type CompiledShape, detachPlaceholders, shapeOf } from './shapes.js';
+import { type CompiledShape, detachDomains, detachPlaceholders, type ShapedSpec, shapeOf } from './shapes.js';
 
 /** vega and vega-lite take a quarter of a second to load: only a chart not in the cache needs them. */
 let chartLibraries: Promise<[typeof import('vega'), typeof import('vega-lite')]> | null = null;
@@ -95,12 +95,19 @@ export function shareChartShapes(on: boolean): void {
   if (!on) compiled.clear();
 }
 
-async function compileShape(shape: TopLevelSpec, slots: number): Promise<CompiledShape | null> {
+async function compileShape(
+  shape: TopLevelSpec,
+  slots: number,
+  domains: ShapedSpec['domains'],
+): Promise<CompiledShape | null> {
   const [vega, vegaLite] = await loadChartLibraries();
   try {
     const vegaSpec = vegaLite.compile(shape).spec;
     const sources = detachPlaceholders(vegaSpec as Parameters<typeof detachPlaceholders>[0], slots);
-    return sources === null ? null : { runtime: vega.parse(vegaSpec), sources };
+    const domainSignals = sources && detachDomains(vegaSpec as Parameters<typeof detachDomains>[0], domains);
+    return sources === null || domainSignals === null
+      ? null
+      : { runtime: vega.parse(vegaSpec), sources, domainSignals };
   } catch {
     // The full render of the chart itself then says what is wrong with it.
     return null;
@@ -109,10 +116,10 @@ async function compileShape(shape: TopLevelSpec, slots: number): Promise<Compile
 
 /** The chart from its shape's parsed runtime and its own rows; null when the shape cannot be shared. */
 async function vegaSvgByShape(spec: TopLevelSpec): Promise<string | null> {
-  const { shape, key, values } = shapeOf(spec);
+  const { shape, key, values, domains } = shapeOf(spec);
   let entry = compiled.get(key);
   if (entry === undefined) {
-    entry = compileShape(shape, values.length);
+    entry = compileShape(shape, values.length, domains);
     stats.shapesCompiled++;
     compiled.set(key, entry);
     if (compiled.size > MAX_SHAPES) compiled.delete(compiled.keys().next().value as string);
@@ -124,6 +131,7 @@ async function vegaSvgByShape(spec: TopLevelSpec): Promise<string | null> {
   const view = new vega.View(ready.runtime, { renderer: 'none', expr: codegen });
   try {
     // Fresh rows: Vega marks the objects it ingests, and the caller's spec stays as it was.
+    for (const [name, slot] of ready.domainSignals) view.signal(name, [...(domains[slot] as unknown[])]);
     for (const [name, slot] of ready.sources) view.data(name, (values[slot] as unknown[]).map(ownCopy));
     return await view.toSVG();
   } finally {

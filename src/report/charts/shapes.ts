@@ -9,7 +9,10 @@
  * and names its data sources exactly as it does for the real rows (it merges equal inline
  * data); the placeholders are then removed from the compiled Vega spec and the real rows
  * inserted under the same source names before the first run, which is what Vega does with
- * inline values too. A View is never reused for a second chart: a reused View keeps its old
+ * inline values too. Explicit scale domains (the wavelength range, the species of a colour
+ * scale) come out the same way, one placeholder list per distinct domain, and become signals
+ * that each chart sets (view.signal) before its first run: charts of one kind from sessions
+ * with other ranges or other species still share a shape. A View is never reused for a second chart: a reused View keeps its old
  * scene items and orders them differently. The output is checked byte for byte against a
  * full compile in test/charts.test.ts.
  */
@@ -18,6 +21,27 @@ import type { TopLevelSpec } from 'vega-lite';
 
 /** A key no chart's rows use (the placeholder row's one field). */
 const SLOT = '__lineledger_data_slot';
+/** Scale domains are taken out too: the wavelength range and the species differ from chart to chart. */
+const DOMAIN_TEXT = '__lineledger_domain_';
+/** Numeric domain placeholders: integers no chart's wavelengths or scores come near. */
+const DOMAIN_NUMBER = 7_340_000_000_000;
+
+type Domain = readonly (number | string)[];
+
+/** Placeholder of value `i` of domain `slot`, of the value's own type (Vega-Lite checks types). */
+function domainPlaceholder(value: number | string, slot: number, i: number): number | string {
+  return typeof value === 'number' ? DOMAIN_NUMBER + slot * 1000 + i : `${DOMAIN_TEXT}${slot}_${i}`;
+}
+
+/** An explicit domain this path can take out: a short list of numbers or of strings. */
+function plainDomain(d: unknown): d is Domain {
+  return (
+    Array.isArray(d) &&
+    d.length > 0 &&
+    d.length < 1000 &&
+    (d.every((v) => typeof v === 'number' && Number.isFinite(v)) || d.every((v) => typeof v === 'string'))
+  );
+}
 
 export interface ShapedSpec {
   /** The spec with each non-empty inline `values` replaced by a placeholder row. */
@@ -26,6 +50,8 @@ export interface ShapedSpec {
   key: string;
   /** The rows of each placeholder, by its number. */
   values: readonly (readonly unknown[])[];
+  /** The explicit scale domains taken out, by number (each as the chart gives it). */
+  domains: readonly Domain[];
 }
 
 /**
@@ -36,8 +62,10 @@ export interface ShapedSpec {
 export function shapeOf(spec: TopLevelSpec): ShapedSpec {
   const byContent = new Map<string, number>();
   const values: (readonly unknown[])[] = [];
-  const walk = (x: unknown): unknown => {
-    if (Array.isArray(x)) return x.map(walk);
+  const domains: Domain[] = [];
+  const byDomain = new Map<string, number>();
+  const walk = (x: unknown, key = ''): unknown => {
+    if (Array.isArray(x)) return x.map((e) => walk(e));
     if (x === null || typeof x !== 'object') return x;
     const out: Record<string, unknown> = {};
     for (const [k, v] of Object.entries(x)) {
@@ -52,19 +80,80 @@ export function shapeOf(spec: TopLevelSpec): ShapedSpec {
           values.push(rows);
         }
         out[k] = { ...(v as object), values: [{ [SLOT]: slot }] };
-      } else out[k] = walk(v);
+      } else if (key === 'scale' && k === 'domain' && plainDomain(v)) {
+        // Equal domains share one placeholder, so Vega-Lite merges their scales as before.
+        const content = JSON.stringify(v);
+        let slot = byDomain.get(content);
+        if (slot === undefined) {
+          slot = domains.length;
+          byDomain.set(content, slot);
+          domains.push(v);
+        }
+        const at = slot;
+        out[k] = v.map((value, i) => domainPlaceholder(value, at, i));
+      } else out[k] = walk(v, k);
     }
     return out;
   };
   const shape = walk(spec) as Record<string, unknown>;
   delete shape.description;
-  return { shape: shape as unknown as TopLevelSpec, key: JSON.stringify(shape), values };
+  return { shape: shape as unknown as TopLevelSpec, key: JSON.stringify(shape), values, domains };
 }
 
 export interface CompiledShape {
   runtime: Runtime;
   /** Vega data source name → placeholder number. */
   sources: [string, number][];
+  /** Vega signal name → domain number: each chart sets its own domain there. */
+  domainSignals: [string, number][];
+}
+
+/** The signal standing for domain `slot` in the compiled spec. */
+const domainSignal = (slot: number) => `${DOMAIN_TEXT}${slot}`;
+
+/**
+ * Replaces each domain placeholder list in the compiled Vega spec (a scale's `domain`) by a
+ * signal, added to the top-level signals, or returns null when a placeholder value shows up
+ * anywhere else (folded into an expression, an axis, a legend): the chart is then drawn in full.
+ */
+export function detachDomains(
+  vegaSpec: { signals?: { name: string; value?: unknown }[] },
+  domains: readonly Domain[],
+): [string, number][] | null {
+  if (domains.length === 0) return [];
+  const expected = domains.map((d, slot) => JSON.stringify(d.map((v, i) => domainPlaceholder(v, slot, i))));
+  const found = new Set<number>();
+  const visit = (x: unknown): void => {
+    if (Array.isArray(x)) {
+      for (const e of x) visit(e);
+      return;
+    }
+    if (x === null || typeof x !== 'object') return;
+    const o = x as Record<string, unknown>;
+    for (const [k, v] of Object.entries(o)) {
+      // A scale's domain, or a legend's values copied from it.
+      const slot =
+        (k === 'domain' || k === 'values') && Array.isArray(v) ? expected.indexOf(JSON.stringify(v)) : -1;
+      if (slot >= 0) {
+        o[k] = { signal: domainSignal(slot) };
+        found.add(slot);
+      } else visit(v);
+    }
+  };
+  visit(vegaSpec);
+  if (found.size !== domains.length) return null;
+  const text = JSON.stringify(vegaSpec);
+  // Every placeholder value must be gone (only the signals' names, which hold no value, remain).
+  for (const [slot, d] of domains.entries())
+    for (let i = 0; i < d.length; i++) {
+      const p = domainPlaceholder(d[i] as number | string, slot, i);
+      if (text.includes(typeof p === 'number' ? String(p) : JSON.stringify(p))) return null;
+    }
+  vegaSpec.signals = [
+    ...(vegaSpec.signals ?? []),
+    ...domains.map((d, slot) => ({ name: domainSignal(slot), value: [...d] })),
+  ];
+  return domains.map((_, slot) => [domainSignal(slot), slot]);
 }
 
 interface VegaData {
