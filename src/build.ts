@@ -11,7 +11,7 @@ import { programFingerprint } from './cache/fingerprint.js';
 import { contextKey, sessionKey } from './cache/key.js';
 import { ProfileRefMemo } from './cache/profileRefs.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
-import { type FileRead, removeStamp, writeStamp } from './cache/upToDate.js';
+import { type FileRead, removeStamp, type StampedSession, writeStamp } from './cache/upToDate.js';
 import { type Diagnostic, escapeControls } from './diagnostics.js';
 import { listSessionFiles, readProfileInput, readSessionInput } from './input/sessionFiles.js';
 import type { Catalog } from './lines/types.js';
@@ -69,14 +69,11 @@ export interface BuildOptions {
   stamp?: { key: string; read: FileRead[] };
 }
 
-/** What the command line needs of each session: diagnostics carry the file's full path. */
-export interface SessionReport {
-  file: string;
-  id: string | null;
-  ok: boolean;
-  status: string;
-  diagnostics: Diagnostic[];
-  warnings: Diagnostic[];
+/**
+ * What the command line needs of each session: diagnostics carry the file's full path. The
+ * up-to-date stamp keeps the same, without the time.
+ */
+export interface SessionReport extends StampedSession {
   /** null when the session came from the cache. */
   ms: number | null;
 }
