@@ -46,6 +46,11 @@ function thresholdCandidates(refs: readonly RefLine[]): number[] {
 const LOG_MISS_STRONG = Math.log1p(-Q_STRONG);
 const LOG_MISS_WEAK = Math.log1p(-Q_WEAK);
 
+/** The completeness cost of one reference line of detection probability q, as weighed. */
+export function lineMissCost(q: number, missWeight: number, strongMissWeight: number): number {
+  return q === Q_STRONG ? strongMissWeight * LOG_MISS_STRONG : missWeight * Math.log1p(-q);
+}
+
 export function detectionProbabilities(
   refs: readonly RefLine[],
   threshold: number,

@@ -8,9 +8,8 @@
 
 import { lowerBound } from '../lines/search.js';
 import type { EvidenceContext } from './evidence.js';
-import { rankTerm } from './evidence.js';
+import { lineMissCost, rankTerm } from './evidence.js';
 import { bestMatching } from './match.js';
-import { Q_STRONG } from './model.js';
 import type { ContendingExplanation, Match, PreparedSpecies, RefLine } from './types.js';
 
 /** Real nebulae and the solar spectrum need 8–15 species. */
@@ -99,20 +98,18 @@ function hiddenMissCost(
   ctx: EvidenceContext,
 ): number {
   if (matches.length === 0) return 0;
-  // Matched reference lines by wavelength, so each unmatched one looks up its neighbours.
-  const matched = [...matches].sort((a, b) => a.ref.vacuum_nm - b.ref.vacuum_nm);
-  const at = Float64Array.from(matched, (m) => m.ref.vacuum_nm);
+  // The matching never crosses (match.ts): its reference lines ascend with the measured ones.
+  const at = Float64Array.from(matches, (m) => m.ref.vacuum_nm);
   const used = new Set(matches.map((m) => m.ref));
   let cost = 0;
   for (const { ref, q } of picked) {
     if (used.has(ref)) continue;
+    const lo = ref.vacuum_nm - ctx.fwhm_nm;
+    const hi = ref.vacuum_nm + ctx.fwhm_nm;
     let hidden = false;
-    for (let k = lowerBound(at, ref.vacuum_nm - ctx.fwhm_nm); k < at.length && !hidden; k++) {
-      const d = Math.abs((at[k] as number) - ref.vacuum_nm);
-      if ((at[k] as number) >= ref.vacuum_nm + ctx.fwhm_nm) break;
-      hidden = d < ctx.fwhm_nm && (matched[k] as Match).ref.species !== ref.species;
-    }
-    if (hidden) cost += (q === Q_STRONG ? ctx.strongMissWeight : ctx.missWeight) * Math.log1p(-q);
+    for (let k = lowerBound(at, lo); k < at.length && (at[k] as number) < hi && !hidden; k++)
+      hidden = (at[k] as number) > lo && (matches[k] as Match).ref.species !== ref.species;
+    if (hidden) cost += lineMissCost(q, ctx.missWeight, ctx.strongMissWeight);
   }
   return cost;
 }

@@ -294,7 +294,7 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     leftovers: sorted.length - assignedByPoint.size,
   };
   const confirmed = (sp: string) => status === 'identified' && (shareOf.get(sp) ?? 0) >= IDENTIFIED_THRESHOLD;
-  const assigned: AssignedLine[] = sorted.map((line, i) => {
+  const lines: AssignedLine[] = sorted.map((line, i) => {
     const point = points[i] as MeasuredPoint;
     const m = assignedByPoint.get(i);
     let lineStatus: LineStatus = 'unexplained';
@@ -334,7 +334,6 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
       alternatives: alternativesFor(point, ref, prepared, evidence, fwhm),
     };
   });
-  const lines = assigned;
   lines.sort((a, b) => a.index - b.index);
   const unexplained = lines.filter((l) => l.status === 'unexplained').map((l) => l.index);
   const tentative = [

@@ -59,11 +59,26 @@ export interface ShapedSpec {
  * the SVG (render.ts puts it there itself), so charts differing only in it share a shape.
  * Empty data stay in the shape as they are: all empty sources are alike to Vega-Lite.
  */
+/** Numbers things by their JSON: equal contents get one number (one placeholder). */
+class Slots<T> {
+  readonly items: T[] = [];
+  private readonly byContent = new Map<string, number>();
+  of(item: T): number {
+    const content = JSON.stringify(item);
+    let slot = this.byContent.get(content);
+    if (slot === undefined) {
+      slot = this.items.length;
+      this.byContent.set(content, slot);
+      this.items.push(item);
+    }
+    return slot;
+  }
+}
+
 export function shapeOf(spec: TopLevelSpec): ShapedSpec {
-  const byContent = new Map<string, number>();
-  const values: (readonly unknown[])[] = [];
-  const domains: Domain[] = [];
-  const byDomain = new Map<string, number>();
+  const rowSlots = new Slots<readonly unknown[]>();
+  // Equal domains share one placeholder, so Vega-Lite merges their scales as before.
+  const domainSlots = new Slots<Domain>();
   const walk = (x: unknown, key = ''): unknown => {
     if (Array.isArray(x)) return x.map((e) => walk(e));
     if (x === null || typeof x !== 'object') return x;
@@ -72,32 +87,22 @@ export function shapeOf(spec: TopLevelSpec): ShapedSpec {
       const rows =
         k === 'data' && v !== null && typeof v === 'object' ? (v as { values?: unknown }).values : null;
       if (Array.isArray(rows) && rows.length > 0) {
-        const content = JSON.stringify(rows);
-        let slot = byContent.get(content);
-        if (slot === undefined) {
-          slot = values.length;
-          byContent.set(content, slot);
-          values.push(rows);
-        }
-        out[k] = { ...(v as object), values: [{ [SLOT]: slot }] };
+        out[k] = { ...(v as object), values: [{ [SLOT]: rowSlots.of(rows) }] };
       } else if (key === 'scale' && k === 'domain' && plainDomain(v)) {
-        // Equal domains share one placeholder, so Vega-Lite merges their scales as before.
-        const content = JSON.stringify(v);
-        let slot = byDomain.get(content);
-        if (slot === undefined) {
-          slot = domains.length;
-          byDomain.set(content, slot);
-          domains.push(v);
-        }
-        const at = slot;
-        out[k] = v.map((value, i) => domainPlaceholder(value, at, i));
+        const slot = domainSlots.of(v);
+        out[k] = v.map((value, i) => domainPlaceholder(value, slot, i));
       } else out[k] = walk(v, k);
     }
     return out;
   };
   const shape = walk(spec) as Record<string, unknown>;
   delete shape.description;
-  return { shape: shape as unknown as TopLevelSpec, key: JSON.stringify(shape), values, domains };
+  return {
+    shape: shape as unknown as TopLevelSpec,
+    key: JSON.stringify(shape),
+    values: rowSlots.items,
+    domains: domainSlots.items,
+  };
 }
 
 export interface CompiledShape {
