@@ -2,8 +2,9 @@
  * `lineledger preview [DIR]`: serves a built site with node:http, on 127.0.0.1 unless told
  * otherwise, and reloads open pages after a rebuild. The site's pages carry no script; the
  * reload snippet is added only to HTML as it is served (never to the files on disk) and listens
- * for Server-Sent Events on /__lineledger/events. A rebuild is seen as the swap of the site
- * folder in its parent folder (the write edge renames a finished build into place).
+ * for Server-Sent Events on /__lineledger/events. A rebuild is seen in the site's parent folder:
+ * as the swap of the site folder (the write edge renames a finished build into place) or as
+ * the marker of a patch in place coming and going.
  */
 import { type FSWatcher, readFileSync, realpathSync, statSync, watch } from 'node:fs';
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
@@ -211,8 +212,11 @@ export function startPreview(options: PreviewOptions): Promise<PreviewServer> {
   let watcher: FSWatcher | null = null;
   let timer: NodeJS.Timeout | undefined;
   if (options.watch !== false) {
+    // A swap renames the site folder; a patch makes and removes its marker beside it.
+    const marker = `.${basename(root)}.patching-`;
     watcher = watch(dirname(root), (_event, name) => {
-      if (name?.toString() !== basename(root)) return;
+      const seen = name?.toString() ?? '';
+      if (seen !== basename(root) && !seen.startsWith(marker)) return;
       clearTimeout(timer);
       timer = setTimeout(reload, 100);
     });

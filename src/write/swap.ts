@@ -4,6 +4,8 @@
  * atomic): old site → `.NAME.previous-PID`, staging → NAME. A build killed between the two
  * leaves no NAME but a `.previous-` folder, which the next build renames back before it starts.
  * Folders carry the builder's process id so a running build's folders are never touched.
+ * A killed patch (patch.ts) leaves a `.NAME.patching-PID` marker: the next build removes it
+ * and, since the site then holds files the manifest does not vouch for, swaps in a full site.
  */
 import {
   closeSync,
@@ -38,7 +40,7 @@ function isAlive(pid: number): boolean {
 
 interface Leftover {
   path: string;
-  kind: 'building' | 'previous';
+  kind: 'building' | 'previous' | 'patching';
   pid: number;
 }
 
@@ -47,7 +49,7 @@ function leftovers(out: string): Leftover[] {
   const found: Leftover[] = [];
   for (const name of readdirSync(dirname(out))) {
     if (!name.startsWith(prefix)) continue;
-    const m = /^(building|previous)-(\d+)$/.exec(name.slice(prefix.length));
+    const m = /^(building|previous|patching)-(\d+)$/.exec(name.slice(prefix.length));
     if (!m) continue;
     const pid = Number(m[2]);
     if (pid !== process.pid && isAlive(pid)) continue;
@@ -74,7 +76,7 @@ export function recoverInterruptedSwap(out: string): void {
   if (previous) renameRetrying(previous.path, out);
 }
 
-/** Remove staging and moved-aside folders of builds that are no longer running. */
+/** Remove staging and moved-aside folders (and patch markers) of builds no longer running. */
 export function cleanLeftovers(out: string): void {
   for (const l of leftovers(out)) rmSync(l.path, { recursive: true, force: true });
 }

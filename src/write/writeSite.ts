@@ -1,7 +1,9 @@
 /**
  * The write edge: the site's files go into a fresh staging folder beside the target, and only
  * a finished build is swapped in, so an interrupted or failed build never leaves a half-written
- * site. Files can be written as sessions finish (a streaming build keeps little in memory);
+ * site. A rebuild that changed only a few files of a site it wrote patches them in instead
+ * (patch.ts): each file is replaced whole, and a patch killed part-way is repaired by the next
+ * build. Files can be written as sessions finish (a streaming build keeps little in memory);
  * nothing outside the staging folder changes before `commit`. Paths are checked to stay inside
  * the output folder.
  */
@@ -19,6 +21,7 @@ import {
 import { dirname, relative, resolve } from 'node:path';
 import type { SiteFile } from '../report/site.js';
 import { contentHash, listFiles, siteFileData } from './manifest.js';
+import { applyPatch } from './patch.js';
 import { cleanLeftovers, previousName, recoverInterruptedSwap, stagingName, swapIn } from './swap.js';
 
 export function safeJoin(root: string, path: string): string {
@@ -56,7 +59,11 @@ export interface Staging {
    * written from `load()` (called at most once).
    */
   writeKnown(files: readonly { path: string; sha256: string }[], load: () => readonly SiteFile[]): void;
-  /** Swap the staged site in place of the old one; false when the site already was it. */
+  /**
+   * Put the staged site in place of the old one: by a swap, or (few files changed, every live
+   * file vouched for by the manifest) by a patch in place (patch.ts); false when the site
+   * already was it.
+   */
   commit(): boolean;
   /** SHA-256 of every file written so far, by path (empty strings unless `reuse` is given). */
   readonly hashes: ReadonlyMap<string, string>;
@@ -93,9 +100,10 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
   // Hashes are kept (for the next build's manifest) whenever the caller reuses files.
   const hashing = options.reuse !== undefined;
   const reuse = options.reuse ?? new Map<string, string>();
-  // Reusable files are linked only once some file differs: an unchanged site is not copied.
-  let pending: string[] = [];
-  let changed = false;
+  // Reusable files are linked only at the commit, and only for a swap: an unchanged site is
+  // not copied, and a patched one keeps them where they are.
+  const pending: string[] = [];
+  const written: string[] = [];
   let open = true;
   const abort = () => {
     open = false;
@@ -110,7 +118,7 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
     }
     return t;
   };
-  const flush = () => {
+  const linkPending = () => {
     for (const path of pending) {
       const t = target(path);
       try {
@@ -120,7 +128,7 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
         copyFileSync(safeJoin(out, path), t);
       }
     }
-    pending = [];
+    pending.length = 0;
   };
   const guarded = <T>(f: () => T): T => {
     if (!open) throw new Error('the staging folder is already closed');
@@ -140,13 +148,24 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
       hashes.set(f.path, sha);
       if (sha !== '' && reuse.get(f.path) === sha) {
         pending.push(f.path);
-        if (changed) flush();
         continue;
       }
-      changed = true;
-      flush();
+      written.push(f.path);
       writeDurably(target(f.path), data, durable);
     }
+  };
+  /** How the staged site replaces the live one: not at all, by a patch, or by a swap. */
+  const plan = (): { how: 'unchanged' } | { how: 'swap' } | { how: 'patch'; removed: string[] } => {
+    if (!existsSync(out)) return { how: 'swap' };
+    const live = listFiles(out);
+    if (written.length === 0 && live.length === hashes.size && live.every((p) => hashes.has(p)))
+      return { how: 'unchanged' };
+    // A patch only where the manifest vouches for every live file (nothing else is there to
+    // overwrite or remove) and few files changed: beyond a quarter of the site a swap costs
+    // little beside the build, and keeps the site whole at every moment.
+    if (written.length * 4 <= hashes.size && live.every((p) => reuse.has(p)))
+      return { how: 'patch', removed: live.filter((p) => !hashes.has(p)) };
+    return { how: 'swap' };
   };
   return {
     dir,
@@ -163,22 +182,23 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
           hashes.set(f.path, f.sha256);
           pending.push(f.path);
         }
-        if (changed) flush();
       });
     },
     commit() {
-      const unchanged = guarded(() => {
-        if (!changed && existsSync(out)) {
-          const live = listFiles(out);
-          if (live.length === hashes.size && live.every((p) => hashes.has(p))) return true;
-        }
-        flush();
-        return false;
+      const how = guarded(() => {
+        const p = plan();
+        if (p.how === 'swap') linkPending();
+        return p;
       });
       open = false;
-      if (unchanged) {
+      if (how.how === 'unchanged') {
         rmSync(dir, { recursive: true, force: true });
         return false;
+      }
+      if (how.how === 'patch') {
+        // A patch that fails part-way leaves its marker: the next build swaps in a full site.
+        applyPatch(out, { staging: dir, written, removed: how.removed }, durable);
+        return true;
       }
       try {
         swapIn(dir, out, previousName(out, process.pid), durable);

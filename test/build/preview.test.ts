@@ -1,6 +1,6 @@
 /** The preview server, on 127.0.0.1 with a bounded number of requests, closed at the end. */
 
-import { readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
 import { request } from 'node:http';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -12,6 +12,7 @@ import {
   startPreview,
 } from '../../src/commands/preview.js';
 import { cspMeta, PAGE_CSP, PREVIEW_CSP, PREVIEW_CSP_HEADER } from '../../src/report/csp.js';
+import { applyPatch } from '../../src/write/patch.js';
 import { writeSiteAtomically } from '../../src/write/writeSite.js';
 import { tempDir } from './helpers.js';
 
@@ -179,7 +180,8 @@ describe('lineledger preview', () => {
     expect(readFileSync(join(root, 'sessions/c/index.html'), 'utf8')).toBe(POLICED_PAGE);
   });
 
-  it('tells an open page to reload when a rebuild swaps the site in', async () => {
+  /** Connects to the event stream, runs `rebuild` once connected, and waits for the reload. */
+  const reloadAfter = async (rebuild: () => void) => {
     const url = new URL(server.url);
     const message = await new Promise<string>((resolve, reject) => {
       const req = request({ host: url.hostname, port: url.port, path: EVENTS_PATH }, (res) => {
@@ -192,7 +194,7 @@ describe('lineledger preview', () => {
             // Connected: now rebuild, as `lineledger build` does.
             if (!seen.includes('rebuilt')) {
               seen += ' rebuilt';
-              writeSiteAtomically(root, [{ path: 'index.html', contents: PAGE }]);
+              rebuild();
             }
           }
           if (seen.includes('data: reload')) {
@@ -206,5 +208,15 @@ describe('lineledger preview', () => {
       req.end();
     });
     expect(message).toContain('data: reload');
-  });
+  };
+
+  it('tells an open page to reload when a rebuild swaps the site in', () =>
+    reloadAfter(() => writeSiteAtomically(root, [{ path: 'index.html', contents: PAGE }])));
+
+  it('tells an open page to reload when a rebuild patches the site in place', () =>
+    reloadAfter(() => {
+      const staging = mkdtempSync(join(parent, '.staging-'));
+      writeFileSync(join(staging, 'index.html'), PAGE);
+      applyPatch(root, { staging, written: ['index.html'], removed: [] }, false);
+    }));
 });

@@ -1,8 +1,10 @@
 /** Nothing lost: a killed or failing build leaves the previous site byte for byte as it was. */
 import { type ChildProcess, spawn, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readdirSync, renameSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, renameSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { readManifest, verifiedFiles, writeManifest } from '../../src/write/manifest.js';
+import { hasLeftovers } from '../../src/write/swap.js';
 import { openStaging, writeSiteAtomically } from '../../src/write/writeSite.js';
 import { archive, CLI, fingerprints, snapshot, tempDir } from './helpers.js';
 
@@ -128,5 +130,83 @@ describe('write edge', () => {
     mkdirSync(live);
     writeSiteAtomically(out, site);
     expect(existsSync(live)).toBe(true);
+  });
+});
+
+describe('patch in place', () => {
+  // Our own toy site: ten session pages and an index, as a build's staging receives them.
+  const pages = (changed: Record<string, string> = {}, dropped: string[] = []) => [
+    ...Array.from({ length: 10 }, (_, i) => `sessions/s${i}/index.html`)
+      .filter((p) => !dropped.includes(p))
+      .map((path) => ({ path, contents: changed[path] ?? `${path}\n` })),
+    { path: 'index.html', contents: changed['index.html'] ?? 'index\n' },
+  ];
+
+  /** Builds `files` into out with the manifest kept in a cache folder, as buildSite does. */
+  function build(out: string, cache: string, files: ReturnType<typeof pages>): boolean {
+    const manifest = join(cache, 'site-manifest.json');
+    const staging = openStaging(out, { reuse: verifiedFiles(readManifest(manifest, out)) });
+    staging.write(files);
+    const changed = staging.commit();
+    writeManifest(manifest, out, staging.hashes);
+    return changed;
+  }
+
+  function fresh(): { parent: string; out: string; cache: string } {
+    const parent = tempDir('ll-patch-');
+    const cache = tempDir('ll-patch-cache-');
+    const out = join(parent, 'site');
+    build(out, cache, pages());
+    return { parent, out, cache };
+  }
+
+  it('replaces only the changed files, removes what the build no longer makes, keeps the folder', () => {
+    const { parent, out, cache } = fresh();
+    const folder = statSync(out).ino;
+    const kept = statSync(join(out, 'sessions/s5/index.html')).ino;
+    const files = pages({ 'sessions/s2/index.html': 'new\n', 'index.html': 'index 2\n' }, [
+      'sessions/s9/index.html',
+    ]);
+    expect(build(out, cache, files)).toBe(true);
+    // Patched, not swapped: the same folder, the unchanged file never rewritten or relinked.
+    expect(statSync(out).ino).toBe(folder);
+    expect(statSync(join(out, 'sessions/s5/index.html')).ino).toBe(kept);
+    expect(snapshot(out)).toEqual(new Map(files.map((f) => [f.path, f.contents])));
+    // The dropped session's folder is gone, and nothing is left beside the site.
+    expect(existsSync(join(out, 'sessions/s9'))).toBe(false);
+    expect(readdirSync(parent)).toEqual(['site']);
+  });
+
+  it('swaps instead when a site file was edited by hand, or when much of the site changed', () => {
+    const { out, cache } = fresh();
+    let folder = statSync(out).ino;
+    writeFileSync(join(out, 'sessions/s1/index.html'), 'edited by hand\n');
+    const files = pages({ 'sessions/s2/index.html': 'new\n' });
+    build(out, cache, files);
+    expect(statSync(out).ino).not.toBe(folder);
+    expect(snapshot(out)).toEqual(new Map(files.map((f) => [f.path, f.contents])));
+
+    folder = statSync(out).ino;
+    const many = pages(
+      Object.fromEntries([0, 1, 2, 3].map((i) => [`sessions/s${i}/index.html`, `v3 ${i}\n`])),
+    );
+    build(out, cache, many);
+    expect(statSync(out).ino).not.toBe(folder);
+    expect(snapshot(out)).toEqual(new Map(many.map((f) => [f.path, f.contents])));
+  });
+
+  it('after a patch killed part-way, the next build swaps in a whole site and removes the marker', () => {
+    const { parent, out, cache } = fresh();
+    // What a killed patch leaves: its marker, and one file renamed in (unknown to the manifest).
+    const pid = deadPid();
+    writeFileSync(join(parent, `.site.patching-${pid}`), '');
+    writeFileSync(join(out, 'sessions/s3/index.html'), 'half-way\n');
+    expect(hasLeftovers(out)).toBe(true);
+    const folder = statSync(out).ino;
+    const files = pages({ 'sessions/s4/index.html': 'new\n' });
+    build(out, cache, files);
+    expect(statSync(out).ino).not.toBe(folder);
+    expect(snapshot(out)).toEqual(new Map(files.map((f) => [f.path, f.contents])));
+    expect(readdirSync(parent)).toEqual(['site']);
   });
 });
