@@ -15,13 +15,24 @@ export interface Templates {
   css: string;
 }
 
+/** The last texts compiled and what they gave: a watch rebuild with the same templates reuses them. */
+let last: { texts: TemplateTexts; templates: Templates } | null = null;
+
+const sameTexts = (a: TemplateTexts, b: TemplateTexts) =>
+  a.layout === b.layout && a.index === b.index && a.session === b.session && a.css === b.css;
+
 export function compileTemplates(t: TemplateTexts): Templates {
+  // Handlebars compiles a template on its first use (about 60–90 ms for the session page on
+  // the project's machine); a rebuild in the same process with the same texts need not again.
+  if (last && sameTexts(last.texts, t)) return last.templates;
   const hb = Handlebars.create();
   const opts = { strict: false, noEscape: false };
-  return {
+  const templates = {
     layout: hb.compile(t.layout, opts),
     index: hb.compile(t.index, opts),
     session: hb.compile(t.session, opts),
     css: t.css,
   };
+  last = { texts: { ...t }, templates };
+  return templates;
 }
