@@ -4,6 +4,7 @@ import { basename, dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Outcome } from '../diagnostics.js';
 import { type CatalogInput, parseCatalog } from './parse.js';
+import { PRECOMPILED_CATALOG_FILE, readPrecompiledCatalog } from './precompiled.js';
 import type { Catalog, CatalogFile } from './types.js';
 
 /** The package's own data/ folder, found from this module's location (src/ or dist/). */
@@ -64,6 +65,17 @@ export function readCatalogInput(
   };
 }
 
+/** Where the build puts the bundled catalog, parsed (beside this module in dist/lines/). */
+export function precompiledCatalogPath(): string {
+  return join(dirname(fileURLToPath(import.meta.url)), PRECOMPILED_CATALOG_FILE);
+}
+
 export function loadCatalog(dataDir?: string, extras: readonly ExtraCatalog[] = []): Outcome<Catalog> {
-  return parseCatalog(readCatalogInput(dataDir, extras));
+  const input = readCatalogInput(dataDir, extras);
+  // The bundled data alone, unchanged since the program was built: parsed already.
+  if (dataDir === undefined && extras.length === 0) {
+    const ready = readPrecompiledCatalog(precompiledCatalogPath(), input);
+    if (ready) return ready;
+  }
+  return parseCatalog(input);
 }
