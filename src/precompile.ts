@@ -4,12 +4,18 @@
  * the compiled modules. Each product carries a key of the files it came from and is ignored
  * when they differ (src/lines/precompiled.ts), so it can only save time, never change a result.
  */
+import { writeFileSync } from 'node:fs';
+import { readTemplateTexts } from './build.js';
 import { precompiledCatalogPath, readCatalogInput } from './lines/load.js';
 import { parseCatalog } from './lines/parse.js';
 import { writePrecompiledCatalog } from './lines/precompiled.js';
+import { precompiledTemplatesPath, precompiledTemplatesSource } from './report/templates.js';
 
 const input = readCatalogInput();
 const parsed = parseCatalog(input);
 // A broken bundled catalog is left for the program to report, with its positions.
 if (parsed.ok) writePrecompiledCatalog(precompiledCatalogPath(), input, parsed);
 else process.stderr.write('precompile: the bundled catalog has problems; not precompiled\n');
+
+const texts = readTemplateTexts();
+writeFileSync(precompiledTemplatesPath(), precompiledTemplatesSource(texts));

@@ -1,0 +1,43 @@
+/**
+ * The precompiled templates (src/report/templates.ts) are used only for the texts they were
+ * made from. That they render the same pages as compiling at run time is checked by
+ * test/e2e.test.ts: the program in dist/ uses them, and its demo site must equal the committed
+ * one byte for byte.
+ */
+import { writeFileSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { readTemplateTexts } from '../../src/build.js';
+import {
+  PRECOMPILED_TEMPLATES_FILE,
+  precompiledTemplatesSource,
+  readPrecompiledTemplates,
+} from '../../src/report/templates.js';
+import { tempDir } from './helpers.js';
+
+const root = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
+
+describe('precompiled templates', () => {
+  const texts = readTemplateTexts();
+  const file = join(tempDir('ll-hbs-'), 'templates.precompiled.cjs');
+  writeFileSync(file, precompiledTemplatesSource(texts));
+
+  it('are read back for the same texts, each page a template spec', () => {
+    const specs = readPrecompiledTemplates(file, texts);
+    expect(specs).not.toBeNull();
+    for (const page of ['layout', 'index', 'session'] as const)
+      expect(typeof specs?.[page].main).toBe('function');
+  });
+
+  it('are ignored when a template differs, or the file is missing', () => {
+    expect(readPrecompiledTemplates(file, { ...texts, session: `${texts.session} ` })).toBeNull();
+    expect(readPrecompiledTemplates(join(tempDir('ll-hbs-'), 'none.cjs'), texts)).toBeNull();
+  });
+
+  it('are made by the build for the program in dist/, from the templates as they are now', () => {
+    expect(
+      readPrecompiledTemplates(join(root, 'dist', 'report', PRECOMPILED_TEMPLATES_FILE), texts),
+    ).not.toBeNull();
+  });
+});
