@@ -5,11 +5,17 @@
  * when they differ (src/lines/precompiled.ts), so it can only save time, never change a result.
  */
 import { writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { readTemplateTexts } from './build.js';
+import { ProjectConfigSchema } from './config/schema.js';
 import { precompiledCatalogPath, readCatalogInput } from './lines/load.js';
 import { parseCatalog } from './lines/parse.js';
 import { writePrecompiledCatalog } from './lines/precompiled.js';
 import { precompiledTemplatesPath, precompiledTemplatesSource } from './report/templates.js';
+import { SessionSchema } from './session/schema.js';
+import { PRECOMPILED_VALIDATORS_FILE } from './session/validate.js';
+import { precompiledValidatorsSource } from './session/validatorSource.js';
 
 const input = readCatalogInput();
 const parsed = parseCatalog(input);
@@ -19,3 +25,8 @@ else process.stderr.write('precompile: the bundled catalog has problems; not pre
 
 const texts = readTemplateTexts();
 writeFileSync(precompiledTemplatesPath(), precompiledTemplatesSource(texts));
+
+writeFileSync(
+  join(dirname(fileURLToPath(import.meta.url)), 'session', PRECOMPILED_VALIDATORS_FILE),
+  precompiledValidatorsSource({ session: SessionSchema, config: ProjectConfigSchema }),
+);

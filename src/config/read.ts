@@ -18,7 +18,7 @@ let configValidator: ReturnType<typeof compileValidator<ProjectConfigDocument>> 
 export function readProjectConfig(text: string, file: string): Outcome<ProjectConfig> {
   const parsed = parseYamlSource(text, file);
   if (!parsed.source) return { ok: false, diagnostics: parsed.diagnostics };
-  configValidator ??= compileValidator<ProjectConfigDocument>(ProjectConfigSchema);
+  configValidator ??= compileValidator<ProjectConfigDocument>(ProjectConfigSchema, 'config');
   const { document, diagnostics } = validateWith(configValidator, parsed.source, file);
   if (!document) return { ok: false, diagnostics };
   return { ok: true, value: configFromDocument(document, file), warnings: [] };

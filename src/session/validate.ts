@@ -3,6 +3,10 @@
  * diagnostics at the right file:line:col. `allErrors` so that every problem of a file is
  * reported in one go.
  */
+import { createHash } from 'node:crypto';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import type { TSchema } from '@sinclair/typebox';
 import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
 import type { Diagnostic } from '../diagnostics.js';
@@ -10,19 +14,59 @@ import { type SessionDocument, SessionSchema } from './schema.js';
 import { didYouMean } from './suggest.js';
 import { type FieldPath, fieldName, type YamlSource } from './yamlSource.js';
 
-const ajv = new Ajv({ allErrors: true, verbose: true, strict: true, allowUnionTypes: true });
-ajv.addKeyword({ keyword: 'x-expect', schemaType: 'string' });
+export const AJV_OPTIONS = { allErrors: true, verbose: true, strict: true, allowUnionTypes: true } as const;
+/** Our annotation: what a value should be, in words, for the diagnostic. */
+export const EXPECT_KEYWORD = { keyword: 'x-expect', schemaType: 'string' } as const;
+
+const ajv = new Ajv(AJV_OPTIONS);
+ajv.addKeyword(EXPECT_KEYWORD);
 // Compiled on first use: compiling costs about a fifth of a second, which commands that read
 // no session (lookup, preview, a cached rebuild) should not pay.
 let sessionValidator: ValidateFunction<SessionDocument> | null = null;
 function validateSession(): ValidateFunction<SessionDocument> {
-  sessionValidator ??= ajv.compile<SessionDocument>(SessionSchema);
+  sessionValidator ??= compileValidator<SessionDocument>(SessionSchema, 'session');
   return sessionValidator;
 }
 
-/** A validator for another document type (the project config), with the same diagnostics. */
-export function compileValidator<T>(schema: TSchema): ValidateFunction<T> {
-  return ajv.compile<T>(schema);
+/** The validators the build compiled to code (validatorSource.ts), beside this module in dist/session/. */
+export const PRECOMPILED_VALIDATORS_FILE = 'validators.precompiled.cjs';
+
+const requireHere = createRequire(import.meta.url);
+const AJV_VERSION = (requireHere('ajv/package.json') as { version: string }).version;
+
+/** What a compiled validator depends on: Ajv's version, its options and the schema. */
+export function validatorKey(schema: TSchema): string {
+  return createHash('sha256')
+    .update(`ajv ${AJV_VERSION}\n${JSON.stringify(AJV_OPTIONS)}\n${JSON.stringify(EXPECT_KEYWORD)}\n`)
+    .update(JSON.stringify(schema))
+    .digest('hex');
+}
+
+/** The validator the build compiled for `name`, when it was made from this very schema. */
+export function precompiledValidator<T>(
+  file: string,
+  name: string,
+  schema: TSchema,
+): ValidateFunction<T> | null {
+  try {
+    const module = requireHere(file) as { keys?: Record<string, string> } & Record<string, unknown>;
+    const validate = module[name];
+    return module.keys?.[name] === validatorKey(schema) && typeof validate === 'function'
+      ? (validate as ValidateFunction<T>)
+      : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * A validator for a document type, with the same diagnostics whichever way it was made: the
+ * build's compiled code for the bundled schemas (Ajv's standalone code, loaded in about 5 ms
+ * against 30–60 ms to compile at each program start), else compiled here.
+ */
+export function compileValidator<T>(schema: TSchema, name?: string): ValidateFunction<T> {
+  const file = join(dirname(fileURLToPath(import.meta.url)), PRECOMPILED_VALIDATORS_FILE);
+  return (name === undefined ? null : precompiledValidator<T>(file, name, schema)) ?? ajv.compile<T>(schema);
 }
 
 function pathOf(instancePath: string): (string | number)[] {

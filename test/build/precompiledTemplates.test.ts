@@ -27,7 +27,7 @@ describe('precompiled templates', () => {
     const specs = readPrecompiledTemplates(file, texts);
     expect(specs).not.toBeNull();
     for (const page of ['layout', 'index', 'session'] as const)
-      expect(typeof specs?.[page].main).toBe('function');
+      expect(typeof (specs?.[page] as { main?: unknown } | undefined)?.main).toBe('function');
   });
 
   it('are ignored when a template differs, or the file is missing', () => {
