@@ -30,7 +30,7 @@ import {
 import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
 import type { InstrumentSpec } from './session/types.js';
 import { checkBuildTargets } from './write/guard.js';
-import { readManifest, verifiedFiles, writeManifest } from './write/manifest.js';
+import { readManifest, verifiedEntries, writeManifest } from './write/manifest.js';
 import { openStaging } from './write/writeSite.js';
 
 export interface BuildOptions {
@@ -260,7 +260,8 @@ export async function buildSite(
   const times: (number | null)[] = units.map(() => null);
 
   const manifestPath = store ? join(store.dir, 'site-manifest.json') : null;
-  const reuse = manifestPath ? verifiedFiles(readManifest(manifestPath, options.outDir)) : undefined;
+  const verified = manifestPath ? verifiedEntries(readManifest(manifestPath, options.outDir)) : null;
+  const reuse = verified ? new Map([...verified].map(([path, entry]) => [path, entry.sha256])) : undefined;
   const staging = openStaging(options.outDir, { durable: options.durable ?? false, reuse });
   const rows: IndexRow[] = [];
   const overview: OverviewEntry[] = [];
@@ -388,7 +389,15 @@ export async function buildSite(
     staging.abort();
     throw e;
   }
-  if (manifestPath) writeManifest(manifestPath, options.outDir, staging.hashes);
+  if (manifestPath && verified) {
+    const untouched = new Map(
+      [...staging.untouched].flatMap((p) => {
+        const entry = verified.get(p);
+        return entry ? [[p, entry] as const] : [];
+      }),
+    );
+    writeManifest(manifestPath, options.outDir, staging.hashes, untouched);
+  }
   store?.prune(new Set(keys), usedCharts);
   refs?.save();
   if (store && options.stamp && stampable)

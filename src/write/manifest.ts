@@ -40,14 +40,19 @@ export function readManifest(path: string, outDir: string): Manifest | null {
   }
 }
 
-/** The files of the live site still exactly as the manifest recorded them: path → SHA-256. */
-export function verifiedFiles(manifest: Manifest | null): Map<string, string> {
-  const ok = new Map<string, string>();
+/** The entries of the live site's files still exactly as the manifest recorded them. */
+export function verifiedEntries(manifest: Manifest | null): Map<string, ManifestEntry> {
+  const ok = new Map<string, ManifestEntry>();
   if (!manifest) return ok;
   for (const [path, entry] of Object.entries(manifest.files)) {
-    if (sameIdentity(identityOf(join(manifest.out, path)), entry)) ok.set(path, entry.sha256);
+    if (sameIdentity(identityOf(join(manifest.out, path)), entry)) ok.set(path, entry);
   }
   return ok;
+}
+
+/** The files of the live site still exactly as the manifest recorded them: path → SHA-256. */
+export function verifiedFiles(manifest: Manifest | null): Map<string, string> {
+  return new Map([...verifiedEntries(manifest)].map(([path, entry]) => [path, entry.sha256]));
 }
 
 /** Every file under dir, as paths relative to it with forward slashes. */
@@ -64,11 +69,26 @@ export function listFiles(dir: string): string[] {
   return out;
 }
 
-/** Records the site as it now is on disk (after the swap), given each file's hash. */
-export function writeManifest(path: string, outDir: string, hashes: ReadonlyMap<string, string>): void {
+/**
+ * Records the site as it now is on disk (after the swap or patch), given each file's hash.
+ * `untouched`: entries of files this build verified and then left in place (a patch, or an
+ * unchanged site), whose identity is still the one verified: not stat'ed again (42 000 files
+ * of a 10 000-session site took 0.3 s).
+ */
+export function writeManifest(
+  path: string,
+  outDir: string,
+  hashes: ReadonlyMap<string, string>,
+  untouched: ReadonlyMap<string, ManifestEntry> = new Map(),
+): void {
   const out = resolve(outDir);
   const files: Record<string, ManifestEntry> = {};
   for (const [p, sha256] of [...hashes].sort((a, b) => (a[0] < b[0] ? -1 : 1))) {
+    const kept = untouched.get(p);
+    if (kept && kept.sha256 === sha256) {
+      files[p] = kept;
+      continue;
+    }
     const id = identityOf(join(out, p));
     if (id) files[p] = { sha256, ...id };
   }

@@ -67,6 +67,11 @@ export interface Staging {
   commit(): boolean;
   /** SHA-256 of every file written so far, by path (empty strings unless `reuse` is given). */
   readonly hashes: ReadonlyMap<string, string>;
+  /**
+   * After `commit`: the site paths left exactly in place, neither written nor linked (all of
+   * them when the site was unchanged, the unchanged ones of a patch, none after a swap).
+   */
+  readonly untouched: ReadonlySet<string>;
   /** Throw the staged files away; the old site stays as it was. */
   abort(): void;
 }
@@ -167,9 +172,11 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
       return { how: 'patch', removed: live.filter((p) => !hashes.has(p)) };
     return { how: 'swap' };
   };
+  const untouched = new Set<string>();
   return {
     dir,
     hashes,
+    untouched,
     write(files) {
       guarded(() => writeFiles(files));
     },
@@ -193,11 +200,13 @@ export function openStaging(outDir: string, options: StagingOptions = {}): Stagi
       open = false;
       if (how.how === 'unchanged') {
         rmSync(dir, { recursive: true, force: true });
+        for (const path of hashes.keys()) untouched.add(path);
         return false;
       }
       if (how.how === 'patch') {
         // A patch that fails part-way leaves its marker: the next build swaps in a full site.
         applyPatch(out, { staging: dir, written, removed: how.removed }, durable);
+        for (const path of pending) untouched.add(path);
         return true;
       }
       try {

@@ -59,6 +59,9 @@ describe('incremental build', () => {
     expect(snapshot(cached)).toEqual(snapshot(clean));
     // The old entry of the touched session is pruned: the cache stays the archive's size.
     expect(heads(cacheDir)).toHaveLength(9);
+    // The manifest written after the patch vouches for every file: the next build changes nothing.
+    const again = await buildSite(optionsFor(dir, cached, { cacheDir, jobs: 1 }), catalog);
+    expect(again).toMatchObject({ cached: 9, computed: 0, unchanged: true });
   });
 
   it('puts back a site file that was edited by hand, even when no session changed', async () => {
