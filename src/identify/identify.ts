@@ -3,7 +3,7 @@
  * line-by-line assignment. Pure.
  */
 
-import { FWHM_PER_SIGMA } from '../constants.js';
+import { FWHM_PER_SIGMA, SPEED_OF_LIGHT_KM_S } from '../constants.js';
 import type { Diagnostic } from '../diagnostics.js';
 import type { Catalog } from '../lines/types.js';
 import { airToVacuum, vacuumToAir } from '../reduce/airVacuum.js';
@@ -209,9 +209,12 @@ function weighAtRest(reduction: Reduction, catalog: Catalog) {
   const sorted = [...reduction.lines].sort(
     (a, b) => a.rest_vacuum_nm - b.rest_vacuum_nm || a.index - b.index,
   );
+  // A source whose line centres scatter about their rest wavelengths (a quasar's broad lines)
+  // reads each line no closer than that scatter, whatever the instrument's σ.
+  const scatter = priors.lineScatter_km_s / SPEED_OF_LIGHT_KM_S;
   const points: MeasuredPoint[] = sorted.map((l) => ({
     vacuum_nm: l.rest_vacuum_nm,
-    sigma_nm: Math.max(l.rest_sigma_nm, MIN_SIGMA_NM),
+    sigma_nm: Math.hypot(Math.max(l.rest_sigma_nm, MIN_SIGMA_NM), l.rest_vacuum_nm * scatter),
   }));
   const sigmas = points.map((p) => p.sigma_nm).sort((a, b) => a - b);
   const medianSigma = sigmas[Math.floor(sigmas.length / 2)] ?? 0.5;

@@ -20,6 +20,8 @@ export interface SessionPriors {
    * as labIntensities says.
    */
   intensities: IntensityCondition;
+  /** Scatter of this source's line centres about their rest wavelengths, km/s (0: none). */
+  lineScatter_km_s: number;
 }
 
 /** Entries of one set, per species: a species named on its own beats a group naming it. */
@@ -45,6 +47,7 @@ export function sessionPriors(session: Session, catalog: Catalog): SessionPriors
     linesListedStated: session.lines_listed !== null,
     labIntensities: cls?.lab_intensities ?? kind?.lab_intensities ?? 'trust',
     intensities: cls?.intensities ?? kind?.intensities ?? 'lab',
+    lineScatter_km_s: (cls?.line_scatter ?? kind?.line_scatter)?.km_s ?? 0,
   };
 }
 

@@ -18,6 +18,8 @@ type Problem = (file: string, line: number, col: number, field: string, message:
 
 export const EMPTY_PRIORS: SourcePriors = { kinds: new Map(), classes: new Map() };
 
+/** Beyond this a line is not a line of the species (a few thousand km/s is a broad line's whole width). */
+const MAX_LINE_SCATTER_KM_S = 3000;
 const LISTED = new Set(['all-seen', 'selection']);
 const TRUST = new Set(['trust', 'distrust']);
 const INTENSITIES: ReadonlySet<string> = new Set<IntensityCondition>(['lab', ...LINE_CONDITIONS]);
@@ -60,7 +62,13 @@ export function parsePriors(
     return out;
   };
   const parseSet = (node: unknown, field: string): SourcePriorSet => {
-    const set: SourcePriorSet = { lines_listed: null, lab_intensities: null, intensities: null, priors: [] };
+    const set: SourcePriorSet = {
+      lines_listed: null,
+      lab_intensities: null,
+      intensities: null,
+      line_scatter: null,
+      priors: [],
+    };
     if (node === null || node === undefined || (isScalar(node) && node.value === null)) return set;
     if (!isMap(node)) {
       fail(node, field, 'must be a map');
@@ -97,6 +105,28 @@ export function parsePriors(
           map.get('intensities', true),
           `${field}.intensities`,
           `intensities must be one of ${[...INTENSITIES].join(', ')}`,
+        );
+    }
+    const scatter = map.get('line_scatter', true);
+    if (scatter !== undefined) {
+      const km_s = isMap(scatter) ? scatter.get('km_s') : undefined;
+      const reason = isMap(scatter) ? scatter.get('reason') : undefined;
+      const source = isMap(scatter) ? scatter.get('source') : undefined;
+      if (
+        typeof km_s === 'number' &&
+        km_s >= 0 &&
+        km_s <= MAX_LINE_SCATTER_KM_S &&
+        typeof reason === 'string' &&
+        reason.trim() &&
+        typeof source === 'string' &&
+        source.trim()
+      )
+        set.line_scatter = { km_s, reason, source };
+      else
+        fail(
+          scatter,
+          `${field}.line_scatter`,
+          `line_scatter is a map of km_s (0 to ${MAX_LINE_SCATTER_KM_S}), reason and source`,
         );
     }
     const list = map.get('priors', true);

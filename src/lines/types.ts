@@ -97,6 +97,11 @@ export interface SourcePriorSet {
   lab_intensities: 'trust' | 'distrust' | null;
   /** Whose line strengths this source shows (lab, or a condition of conditions.tsv). */
   intensities: IntensityCondition | null;
+  /**
+   * How far, in km/s, this source's line centres scatter about their rest wavelengths times the
+   * source's redshift (the broad lines of quasars shift against each other), with its reason.
+   */
+  line_scatter: { km_s: number; reason: string; source: string } | null;
   priors: PriorEntry[];
 }
 

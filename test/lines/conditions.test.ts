@@ -102,6 +102,27 @@ describe('conditions.tsv', () => {
     });
   });
 
+  it('priors.yaml: a line scatter needs km_s in range, a reason and a source, positioned', () => {
+    const bad = parseCatalog(
+      input(HEADER_CONDITIONS, 'kinds:\n  galaxy:\n    line_scatter: { km_s: 9000, reason: r }\n'),
+    );
+    if (bad.ok) throw new Error('expected an error');
+    expect(bad.diagnostics[0]).toMatchObject({
+      file: 'priors.yaml',
+      line: 3,
+      field: 'kinds.galaxy.line_scatter',
+    });
+    const good = parseCatalog(
+      input(HEADER_CONDITIONS, 'kinds:\n  galaxy:\n    line_scatter: { km_s: 500, reason: r, source: s }\n'),
+    );
+    if (!good.ok) throw new Error(JSON.stringify(good.diagnostics));
+    expect(good.value.priors.kinds.get('galaxy')?.line_scatter).toEqual({
+      km_s: 500,
+      reason: 'r',
+      source: 's',
+    });
+  });
+
   it('the bundled table loads, and gives Na D in a flame the 2:1 ratio of the upper levels 2J+1', () => {
     // 3p 2P3/2 (g = 4) : 3p 2P1/2 (g = 2), optically thin (from memory; any atomic physics text).
     const na = bundledCatalog().species.get('Na I');
