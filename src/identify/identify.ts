@@ -22,6 +22,7 @@ import {
   matchGain,
   missWeight,
   pairSigma,
+  Q_STRONG,
   statusFor,
   strongMissWeight,
   TENTATIVE_MIN,
@@ -429,13 +430,18 @@ function tentativeFor(
   for (const e of evidence) {
     const p = prepared.get(e.species);
     if (!p) continue;
+    // A species outside the answer is weighed as if present: then its strongest line in range is
+    // the one most sure to show (its detection limit, profiled on the session alone, may have
+    // judged even that line weak when one match could not pay for it, as for a broad band).
+    const strongest = chosen.has(e.species) ? Number.POSITIVE_INFINITY : maxIntensity(p.refs);
     let top: { ref: RefLine; gain: number } | null = null;
     for (const k of p.touched) {
       const r = p.refs[k] as RefLine;
       const sigma = pairSigma(point.sigma_nm, r.unc_nm, ctx.fwhm_nm);
       const d = point.vacuum_nm - r.vacuum_nm;
       if (Math.abs(d) > WINDOW_SIGMAS * sigma) continue;
-      const g = matchGain(d, sigma, p.q[k] as number, ctx.background_per_nm);
+      const q = r.intensity >= strongest ? Math.max(p.q[k] as number, Q_STRONG) : (p.q[k] as number);
+      const g = matchGain(d, sigma, q, ctx.background_per_nm);
       if (top === null || g > top.gain) top = { ref: r, gain: g };
     }
     if (!top) continue;
@@ -445,6 +451,12 @@ function tentativeFor(
     if (best === null || w > best.weight) best = { ref: top.ref, weight: w };
   }
   return best ? { ref: best.ref, probability: best.weight / total } : null;
+}
+
+function maxIntensity(refs: readonly RefLine[]): number {
+  let max = Number.NEGATIVE_INFINITY;
+  for (const r of refs) if (r.intensity > max) max = r.intensity;
+  return max;
 }
 
 /** Where lines were expected: the instrument's range (rest frame, vacuum) or the measured span padded. */
