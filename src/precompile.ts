@@ -8,13 +8,11 @@ import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { readTemplateTexts } from './build.js';
-import { ProjectConfigSchema } from './config/schema.js';
 import { precompiledCatalogPath, readCatalogInput } from './lines/load.js';
 import { parseCatalog } from './lines/parse.js';
 import { writePrecompiledCatalog } from './lines/precompiled.js';
 import { precompiledTemplatesPath, precompiledTemplatesSource } from './report/templates.js';
-import { SessionSchema } from './session/schema.js';
-import { PRECOMPILED_VALIDATORS_FILE } from './session/validate.js';
+import { PRECOMPILED_VALIDATORS_FILE, publishedSchema } from './session/validate.js';
 import { precompiledValidatorsSource } from './session/validatorSource.js';
 
 const input = readCatalogInput();
@@ -28,5 +26,5 @@ writeFileSync(precompiledTemplatesPath(), precompiledTemplatesSource(texts));
 
 writeFileSync(
   join(dirname(fileURLToPath(import.meta.url)), 'session', PRECOMPILED_VALIDATORS_FILE),
-  precompiledValidatorsSource({ session: SessionSchema, config: ProjectConfigSchema }),
+  precompiledValidatorsSource({ session: publishedSchema('session'), config: publishedSchema('config') }),
 );

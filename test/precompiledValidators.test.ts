@@ -15,7 +15,9 @@ import {
   EXPECT_KEYWORD,
   PRECOMPILED_VALIDATORS_FILE,
   precompiledValidator,
+  publishedSchema,
   validateWith,
+  validatorKey,
 } from '../src/session/validate.js';
 import { precompiledValidatorsSource } from '../src/session/validatorSource.js';
 import { parseYamlSource } from '../src/session/yamlSource.js';
@@ -80,6 +82,13 @@ describe('precompiled validators', () => {
     expect(
       precompiledValidator(join(tempDir('ll-validators-'), 'none.cjs'), 'session', SessionSchema),
     ).toBeNull();
+  });
+
+  it('come from the published JSON Schemas, which are the TypeBox definitions as plain JSON', () => {
+    // The program validates with schema/*.json (it never loads TypeBox): same schema, same key.
+    expect(validatorKey(publishedSchema('session'))).toBe(validatorKey(SessionSchema));
+    expect(validatorKey(publishedSchema('config'))).toBe(validatorKey(ProjectConfigSchema));
+    expect(precompiledValidator(file, 'session', publishedSchema('session'))).not.toBeNull();
   });
 
   it('are made by the build for the program in dist/, from the schemas as they are now', () => {

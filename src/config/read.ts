@@ -1,9 +1,9 @@
 /** lineledger.yaml text → resolved ProjectConfig (paths made absolute against the file's folder). */
 import type { Outcome } from '../diagnostics.js';
-import { compileValidator, validateWith } from '../session/validate.js';
+import { validateWith, validatorFor } from '../session/validate.js';
 import { parseYamlSource } from '../session/yamlSource.js';
 import { configFromDocument, type ProjectConfig } from './project.js';
-import { type ProjectConfigDocument, ProjectConfigSchema } from './schema.js';
+import type { ProjectConfigDocument } from './schema.js';
 
 export {
   CONFIG_FILE_NAME,
@@ -13,13 +13,14 @@ export {
   type ProjectConfig,
 } from './project.js';
 
-let configValidator: ReturnType<typeof compileValidator<ProjectConfigDocument>> | null = null;
-
 export function readProjectConfig(text: string, file: string): Outcome<ProjectConfig> {
   const parsed = parseYamlSource(text, file);
   if (!parsed.source) return { ok: false, diagnostics: parsed.diagnostics };
-  configValidator ??= compileValidator<ProjectConfigDocument>(ProjectConfigSchema, 'config');
-  const { document, diagnostics } = validateWith(configValidator, parsed.source, file);
+  const { document, diagnostics } = validateWith(
+    validatorFor<ProjectConfigDocument>('config'),
+    parsed.source,
+    file,
+  );
   if (!document) return { ok: false, diagnostics };
   return { ok: true, value: configFromDocument(document, file), warnings: [] };
 }

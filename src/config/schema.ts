@@ -50,3 +50,9 @@ export const ProjectConfigSchema = Type.Object(
 );
 
 export type ProjectConfigDocument = Static<typeof ProjectConfigSchema>;
+
+/** The config's JSON Schema as published in schema/project-1.schema.json (plain JSON). */
+export function projectConfigJsonSchema(): Record<string, unknown> {
+  const plain = JSON.parse(JSON.stringify(ProjectConfigSchema)) as Record<string, unknown>;
+  return { $schema: 'https://json-schema.org/draft/2020-12/schema', ...plain };
+}

@@ -6,7 +6,7 @@ import { createHash } from 'node:crypto';
 import type { Diagnostic, SourcePosition } from '../diagnostics.js';
 import { parseAngleDeg, parseDeclinationDeg, parseRightAscensionDeg } from './angles.js';
 import { checkLineKeys, checkShift, checkValues, checkWavelengths, impossibleDate } from './plausible.js';
-import { INTENSITY_WORDS, type LineDocument, type SessionDocument, SOURCE_CLASS_KIND } from './schema.js';
+import type { LineDocument, SessionDocument } from './schema.js';
 import type {
   BarycentricRequest,
   GratingSpec,
@@ -18,6 +18,7 @@ import type {
   Session,
   ShiftRequest,
 } from './types.js';
+import { INTENSITY_WORDS, SOURCE_CLASS_KIND } from './vocabulary.js';
 import { type FieldPath, fieldName, type YamlSource } from './yamlSource.js';
 
 /** The per-line keys that carry a position, by method. */

@@ -6,57 +6,29 @@
  */
 import { type Static, type TSchema, Type } from '@sinclair/typebox';
 import { SESSION_LIMITS } from './limits.js';
+import {
+  INTENSITY_WORDS,
+  LINE_KINDS,
+  LINES_LISTED,
+  METHODS,
+  SOURCE_CLASSES,
+  SOURCE_KINDS,
+  WAVELENGTH_UNITS,
+} from './vocabulary.js';
 
 const Strict = { additionalProperties: false } as const;
 
-export const SOURCE_KINDS = [
-  'lamp',
-  'flame',
-  'star',
-  'nebula',
-  'galaxy',
-  'sky',
-  'laser',
-  'other',
-  'unknown',
-] as const;
-/**
- * Finer classes of source an observer may name (`source.class`). They select priors and line
- * strengths in identification; each belongs to one kind (SOURCE_CLASS_KIND).
- */
-export const SOURCE_CLASS_KIND = {
-  'discharge-tube': 'lamp',
-  fluorescent: 'lamp',
-  led: 'lamp',
-  'street-light': 'lamp',
-  incandescent: 'lamp',
-  'flame-test': 'flame',
-  'gas-flame': 'flame',
-  sun: 'star',
-  'hot-star': 'star',
-  'cool-star': 'star',
-  'wolf-rayet': 'star',
-  nova: 'star',
-  supernova: 'star',
-  'planetary-nebula': 'nebula',
-  'h-ii-region': 'nebula',
-  'supernova-remnant': 'nebula',
-  quasar: 'galaxy',
-  seyfert: 'galaxy',
-  starburst: 'galaxy',
-  daylight: 'sky',
-  aurora: 'sky',
-  airglow: 'sky',
-  'light-pollution': 'sky',
-} as const;
-export type SourceClass = keyof typeof SOURCE_CLASS_KIND;
-export const SOURCE_CLASSES = Object.keys(SOURCE_CLASS_KIND) as SourceClass[];
-/** Whether the session's lines are every line that was seen, or a chosen selection. */
-export const LINES_LISTED = ['all-seen', 'selection'] as const;
-export const METHODS = ['wavelength', 'grating-angle', 'screen', 'pixel'] as const;
-export const WAVELENGTH_UNITS = ['nm', 'angstrom', 'um'] as const;
-export const INTENSITY_WORDS = ['very-weak', 'weak', 'medium', 'strong', 'very-strong'] as const;
-export const LINE_KINDS = ['emission', 'absorption'] as const;
+export {
+  INTENSITY_WORDS,
+  LINE_KINDS,
+  LINES_LISTED,
+  METHODS,
+  SOURCE_CLASS_KIND,
+  SOURCE_CLASSES,
+  SOURCE_KINDS,
+  type SourceClass,
+  WAVELENGTH_UNITS,
+} from './vocabulary.js';
 
 /** A closed word list as a JSON Schema `enum` (clearer errors than a union of constants). */
 function words<T extends readonly string[]>(values: T, description: string) {

@@ -8,9 +8,9 @@ import type {
   SOURCE_KINDS,
   SourceClass,
   WAVELENGTH_UNITS,
-} from './schema.js';
+} from './vocabulary.js';
 
-export type { SourceClass } from './schema.js';
+export type { SourceClass } from './vocabulary.js';
 
 export type SourceKind = (typeof SOURCE_KINDS)[number];
 export type LinesListed = (typeof LINES_LISTED)[number];

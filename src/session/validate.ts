@@ -4,13 +4,13 @@
  * reported in one go.
  */
 import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { dirname, join } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { TSchema } from '@sinclair/typebox';
 import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
 import type { Diagnostic } from '../diagnostics.js';
-import { type SessionDocument, SessionSchema } from './schema.js';
+import type { SessionDocument } from './schema.js';
 import { didYouMean } from './suggest.js';
 import { type FieldPath, fieldName, type YamlSource } from './yamlSource.js';
 
@@ -18,14 +18,35 @@ export const AJV_OPTIONS = { allErrors: true, verbose: true, strict: true, allow
 /** Our annotation: what a value should be, in words, for the diagnostic. */
 export const EXPECT_KEYWORD = { keyword: 'x-expect', schemaType: 'string' } as const;
 
+/** A JSON Schema as a plain object (a TypeBox definition is one too). */
+export type JsonSchema = Record<string, unknown>;
+
 const ajv = new Ajv(AJV_OPTIONS);
 ajv.addKeyword(EXPECT_KEYWORD);
-// Compiled on first use: compiling costs about a fifth of a second, which commands that read
-// no session (lookup, preview, a cached rebuild) should not pay.
-let sessionValidator: ValidateFunction<SessionDocument> | null = null;
-function validateSession(): ValidateFunction<SessionDocument> {
-  sessionValidator ??= compileValidator<SessionDocument>(SessionSchema, 'session');
-  return sessionValidator;
+
+/** The documents the program validates, each with its published schema in schema/. */
+export type SchemaName = 'session' | 'config';
+const SCHEMA_FILES: Record<SchemaName, string> = {
+  session: 'session-1.schema.json',
+  config: 'project-1.schema.json',
+};
+
+/** The package's schema/ folder (beside src/ and dist/). */
+export function schemaDir(): string {
+  return resolve(dirname(fileURLToPath(import.meta.url)), '..', '..', 'schema');
+}
+
+/**
+ * A published schema as the program validates with it: the JSON that `npm run schema` writes
+ * from the one TypeBox definition (a test keeps them equal), without its `$schema` line (Ajv's
+ * default draft reads the rest). Reading it is plain JSON: the program never loads TypeBox,
+ * which alone took about 75 ms at each start.
+ */
+export function publishedSchema(name: SchemaName): JsonSchema {
+  const { $schema: _draft, ...schema } = JSON.parse(
+    readFileSync(join(schemaDir(), SCHEMA_FILES[name]), 'utf8'),
+  ) as JsonSchema;
+  return schema;
 }
 
 /** The validators the build compiled to code (validatorSource.ts), beside this module in dist/session/. */
@@ -35,7 +56,7 @@ const requireHere = createRequire(import.meta.url);
 const AJV_VERSION = (requireHere('ajv/package.json') as { version: string }).version;
 
 /** What a compiled validator depends on: Ajv's version, its options and the schema. */
-export function validatorKey(schema: TSchema): string {
+export function validatorKey(schema: JsonSchema): string {
   return createHash('sha256')
     .update(`ajv ${AJV_VERSION}\n${JSON.stringify(AJV_OPTIONS)}\n${JSON.stringify(EXPECT_KEYWORD)}\n`)
     .update(JSON.stringify(schema))
@@ -46,7 +67,7 @@ export function validatorKey(schema: TSchema): string {
 export function precompiledValidator<T>(
   file: string,
   name: string,
-  schema: TSchema,
+  schema: JsonSchema,
 ): ValidateFunction<T> | null {
   try {
     const module = requireHere(file) as { keys?: Record<string, string> } & Record<string, unknown>;
@@ -60,13 +81,31 @@ export function precompiledValidator<T>(
 }
 
 /**
- * A validator for a document type, with the same diagnostics whichever way it was made: the
- * build's compiled code for the bundled schemas (Ajv's standalone code, loaded in about 5 ms
- * against 30–60 ms to compile at each program start), else compiled here.
+ * A validator with the same diagnostics whichever way it was made: the build's compiled code
+ * for the schema (Ajv's standalone code, loaded in a few ms against 30–60 ms to compile at each
+ * program start), else compiled here.
  */
-export function compileValidator<T>(schema: TSchema, name?: string): ValidateFunction<T> {
+export function compileValidator<T>(schema: JsonSchema, name?: string): ValidateFunction<T> {
   const file = join(dirname(fileURLToPath(import.meta.url)), PRECOMPILED_VALIDATORS_FILE);
   return (name === undefined ? null : precompiledValidator<T>(file, name, schema)) ?? ajv.compile<T>(schema);
+}
+
+// Made on first use: commands that read no session (lookup, preview, a cached rebuild) never
+// pay for it.
+const validators = new Map<SchemaName, ValidateFunction<unknown>>();
+
+/** The validator of a document type, from its published schema. */
+export function validatorFor<T>(name: SchemaName): ValidateFunction<T> {
+  let v = validators.get(name);
+  if (!v) {
+    v = compileValidator<unknown>(publishedSchema(name), name);
+    validators.set(name, v);
+  }
+  return v as ValidateFunction<T>;
+}
+
+function validateSession(): ValidateFunction<SessionDocument> {
+  return validatorFor<SessionDocument>('session');
 }
 
 function pathOf(instancePath: string): (string | number)[] {

@@ -3,14 +3,13 @@
  * one CommonJS module exporting each by name and, under `keys`, what each was made from
  * (validate.ts `validatorKey`), so a schema changed since is compiled afresh instead.
  */
-import type { TSchema } from '@sinclair/typebox';
 import { Ajv } from 'ajv';
 import standalone from 'ajv/dist/standalone/index.js';
-import { AJV_OPTIONS, EXPECT_KEYWORD, validatorKey } from './validate.js';
+import { AJV_OPTIONS, EXPECT_KEYWORD, type JsonSchema, validatorKey } from './validate.js';
 
 type StandaloneCode = (ajv: Ajv, refs: Record<string, string>) => string;
 
-export function precompiledValidatorsSource(schemas: Record<string, TSchema>): string {
+export function precompiledValidatorsSource(schemas: Record<string, JsonSchema>): string {
   const ajv = new Ajv({ ...AJV_OPTIONS, code: { source: true } });
   ajv.addKeyword(EXPECT_KEYWORD);
   const keys: Record<string, string> = {};
