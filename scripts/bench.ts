@@ -66,7 +66,7 @@ if (pre.status !== 0) throw new Error(`cannot precompile: ${pre.stdout}${pre.std
 const app = join(work, 'app');
 cpSync(join(root, 'dist'), join(app, 'dist'), { recursive: true });
 cpSync(join(root, 'package.json'), join(app, 'package.json'));
-for (const shared of ['node_modules', 'data', 'templates'])
+for (const shared of ['node_modules', 'data', 'templates', 'schema'])
   symlinkSync(join(root, shared), join(app, shared));
 const CLI = join(app, 'dist', 'cli.js');
 
