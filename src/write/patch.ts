@@ -19,17 +19,9 @@
  * else. A killed patch leaves a mix of old and new files, all whole; the next build replaces
  * the site by a full swap.
  */
-import {
-  closeSync,
-  fsyncSync,
-  mkdirSync,
-  openSync,
-  renameSync,
-  rmdirSync,
-  rmSync,
-  unlinkSync,
-} from 'node:fs';
+import { closeSync, mkdirSync, openSync, renameSync, rmdirSync, rmSync, unlinkSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
+import { syncDir } from './swap.js';
 
 export function patchMarkerName(out: string, pid: number): string {
   return join(dirname(out), `.${basename(out)}.patching-${pid}`);
@@ -47,23 +39,10 @@ export interface Patch {
 /** Depth of a site path: deeper files (session pages) go in before the index that links them. */
 const depth = (path: string) => path.split('/').length;
 
-function syncFolder(dir: string): void {
-  try {
-    const fd = openSync(dir, 'r');
-    try {
-      fsyncSync(fd);
-    } finally {
-      closeSync(fd);
-    }
-  } catch {
-    // Windows cannot open a folder for fsync; its renames are already journalled.
-  }
-}
-
 export function applyPatch(out: string, patch: Patch, durable: boolean): void {
   const marker = patchMarkerName(out, process.pid);
   closeSync(openSync(marker, 'w'));
-  if (durable) syncFolder(dirname(out));
+  if (durable) syncDir(dirname(out));
   const touched = new Set<string>();
   const made = new Set<string>([out]);
   const ensureFolder = (folder: string): void => {
@@ -93,7 +72,7 @@ export function applyPatch(out: string, patch: Patch, durable: boolean): void {
       }
     }
   }
-  if (durable) for (const folder of touched) syncFolder(folder);
+  if (durable) for (const folder of touched) syncDir(folder);
   rmSync(patch.staging, { recursive: true, force: true });
   rmSync(marker, { force: true });
 }

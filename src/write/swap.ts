@@ -96,7 +96,7 @@ function renameRetrying(from: string, to: string): void {
 }
 
 /** fsync a folder so the renames inside it survive a power cut; not possible everywhere. */
-function syncDir(dir: string): void {
+export function syncDir(dir: string): void {
   try {
     const fd = openSync(dir, 'r');
     try {
