@@ -173,9 +173,18 @@ function toVacuum(wavelength_nm: number, medium: QueryMedium): number {
  * by binary search on its sorted vacuum wavelengths (the air↔vacuum conversion is monotonic, so
  * the window's ends convert exactly); distances are then measured in the query's own medium.
  */
+/**
+ * How far a row's own air value may sit from its vacuum value converted by the IAU formula (the
+ * catalog checks allow 0.002 nm; sources round and use other formulas). The search in vacuum is
+ * widened by this, and the window is then applied in the query's medium, so a line whose air
+ * value is inside the window is never lost because its vacuum value lies just outside.
+ */
+const MEDIUM_MARGIN_NM = 0.01;
+
 export function queryLines(catalog: Catalog, query: LineQuery): LineQueryResult {
-  const from_vac = toVacuum(query.wavelength_nm - query.window_nm, query.medium);
-  const to_vac = toVacuum(query.wavelength_nm + query.window_nm, query.medium);
+  // Widened in vacuum too: the window's edges are then decided by the exact test below alone.
+  const from_vac = toVacuum(query.wavelength_nm - query.window_nm, query.medium) - MEDIUM_MARGIN_NM;
+  const to_vac = toVacuum(query.wavelength_nm + query.window_nm, query.medium) + MEDIUM_MARGIN_NM;
   const centre_vac = toVacuum(query.wavelength_nm, query.medium);
   const hits: LineHit[] = [];
   let nearest: LineHit | null = null;

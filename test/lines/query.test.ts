@@ -23,7 +23,8 @@ function scan(q: LineQuery): string[] {
       for (let k = 0; k < l.vacuum_nm.length; k++) {
         const air = l.air_nm[k] as number;
         const w = q.medium === 'air' && !Number.isNaN(air) ? air : (l.vacuum_nm[k] as number);
-        if (Math.abs(w - q.wavelength_nm) <= q.window_nm) out.push(`${name}@${l.vacuum_nm[k]}`);
+        // The query's own tolerance for rounding at the window's edge.
+        if (Math.abs(w - q.wavelength_nm) <= q.window_nm + 1e-9) out.push(`${name}@${l.vacuum_nm[k]}`);
       }
     }
   }
@@ -49,6 +50,16 @@ describe('lookup query', () => {
     expect(hits).toHaveLength(1);
     expect(Math.abs(hits[0]?.distance_nm as number)).toBeLessThan(0.002);
     expect(hits[0]?.wavelength_nm).toBe(hits[0]?.vacuum_nm);
+  });
+
+  it("finds a line by its own air value at the window's edge, where its vacuum value lies just outside", () => {
+    // CuCl 443.4 nm air (Pearse & Gaydon, from memory; catalog vacuum 443.524): the IAU formula
+    // (Morton 2000) puts that vacuum value at 443.3995 nm air, 0.0005 nm from the row's own value.
+    const { hits } = queryLines(
+      catalog,
+      query({ wavelength_nm: 443.41, window_nm: 0.01, species: ['CuCl'] }),
+    );
+    expect(hits.map((h) => h.air_nm)).toEqual([443.4]);
   });
 
   it('agrees with a full scan for any wavelength, window and medium (binary search per species)', () => {
