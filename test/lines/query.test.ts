@@ -75,7 +75,9 @@ describe('lookup query', () => {
           expect(got.sort()).toEqual(scan(q));
         },
       ),
-      { numRuns: 300 },
+      // A fixed seed, as the other property checks (test/property.test.ts): the same 300 cases
+      // on every run, so a failure can be reproduced and CI never meets a new draw.
+      { seed: 20261204, numRuns: 300 },
     );
   });
 
