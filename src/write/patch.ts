@@ -19,9 +19,9 @@
  * else. A killed patch leaves a mix of old and new files, all whole; the next build replaces
  * the site by a full swap.
  */
-import { closeSync, mkdirSync, openSync, renameSync, rmdirSync, rmSync, unlinkSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync, rmdirSync, rmSync, unlinkSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
-import { syncDir } from './swap.js';
+import { renameRetrying, syncDir } from './swap.js';
 
 export function patchMarkerName(out: string, pid: number): string {
   return join(dirname(out), `.${basename(out)}.patching-${pid}`);
@@ -53,7 +53,8 @@ export function applyPatch(out: string, patch: Patch, durable: boolean): void {
   for (const path of [...patch.written].sort((a, b) => depth(b) - depth(a))) {
     const live = join(out, path);
     ensureFolder(dirname(live));
-    renameSync(join(patch.staging, path), live);
+    // Windows refuses to replace a file something has open (a preview serving it): retried.
+    renameRetrying(join(patch.staging, path), live);
     touched.add(dirname(live));
   }
   const emptied = new Set<string>();

@@ -82,7 +82,7 @@ export function cleanLeftovers(out: string): void {
 }
 
 /** Windows refuses to rename a folder while something (an indexer, a preview) has it open. */
-function renameRetrying(from: string, to: string): void {
+export function renameRetrying(from: string, to: string): void {
   for (let attempt = 0; ; attempt++) {
     try {
       renameSync(from, to);
