@@ -77,6 +77,10 @@ const inside: number[] = [];
 /** Peak resident set of each build's process (KiB, from its own process.resourceUsage()). */
 const peaks: number[] = [];
 
+/** A build's summary line, and the time inside the build it reports. */
+const SUMMARY = /built \d+ of \d+ sessions[^\n]*/;
+const insideMs = (summary: string) => Number(/, (\d+) ms\)/.exec(summary)?.[1] ?? Number.NaN);
+
 /** Times one build as users run it: the compiled command line, in a fresh process. */
 function timed(label: string, extra: string[]): number {
   const args = [CLI, 'build', base.inputDir, '--out', base.outDir, '--config', join(root, 'lineledger.yaml')];
@@ -87,9 +91,8 @@ function timed(label: string, extra: string[]): number {
     maxBuffer: 256 * 1024 * 1024,
   });
   const ms = performance.now() - t0;
-  const summary =
-    /built \d+ of \d+ sessions[^\n]*/.exec(r.stderr)?.[0] ?? `exit ${r.status}: ${r.stderr.slice(-300)}`;
-  inside.push(Number(/, (\d+) ms\)/.exec(summary)?.[1] ?? Number.NaN));
+  const summary = SUMMARY.exec(r.stderr)?.[0] ?? `exit ${r.status}: ${r.stderr.slice(-300)}`;
+  inside.push(insideMs(summary));
   const peak = Number(/bench-maxrss-kib (\d+)/.exec(r.stderr)?.[1] ?? Number.NaN);
   peaks.push(peak);
   process.stdout.write(
@@ -175,9 +178,8 @@ async function watchRebuilds(times: number): Promise<number[]> {
     for (let at = text.indexOf('\n'); at >= 0; at = text.indexOf('\n')) {
       const line = text.slice(0, at);
       text = text.slice(at + 1);
-      const ms = /built \d+ of \d+ sessions.*, (\d+) ms\)/.exec(line)?.[1];
-      if (ms !== undefined) {
-        built.push(Number(ms));
+      if (SUMMARY.test(line)) {
+        built.push(insideMs(line));
         waiting?.();
       }
     }

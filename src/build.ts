@@ -30,7 +30,7 @@ import {
 import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
 import type { InstrumentSpec } from './session/types.js';
 import { checkBuildTargets } from './write/guard.js';
-import { readManifest, verifiedEntries, writeManifest } from './write/manifest.js';
+import { hashesOf, readManifest, verifiedEntries, writeManifest } from './write/manifest.js';
 import { openStaging } from './write/writeSite.js';
 
 export interface BuildOptions {
@@ -261,7 +261,7 @@ export async function buildSite(
 
   const manifestPath = store ? join(store.dir, 'site-manifest.json') : null;
   const verified = manifestPath ? verifiedEntries(readManifest(manifestPath, options.outDir)) : null;
-  const reuse = verified ? new Map([...verified].map(([path, entry]) => [path, entry.sha256])) : undefined;
+  const reuse = verified ? hashesOf(verified) : undefined;
   const staging = openStaging(options.outDir, { durable: options.durable ?? false, reuse });
   const rows: IndexRow[] = [];
   const overview: OverviewEntry[] = [];
@@ -390,12 +390,7 @@ export async function buildSite(
     throw e;
   }
   if (manifestPath && verified) {
-    const untouched = new Map(
-      [...staging.untouched].flatMap((p) => {
-        const entry = verified.get(p);
-        return entry ? [[p, entry] as const] : [];
-      }),
-    );
+    const untouched = new Map([...verified].filter(([path]) => staging.untouched.has(path)));
     writeManifest(manifestPath, options.outDir, staging.hashes, untouched);
   }
   store?.prune(new Set(keys), usedCharts);

@@ -5,14 +5,12 @@
  * when they differ (src/lines/precompiled.ts), so it can only save time, never change a result.
  */
 import { writeFileSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { readTemplateTexts } from './build.js';
 import { precompiledCatalogPath, readCatalogInput } from './lines/load.js';
 import { parseCatalog } from './lines/parse.js';
 import { writePrecompiledCatalog } from './lines/precompiled.js';
 import { precompiledTemplatesPath, precompiledTemplatesSource } from './report/templates.js';
-import { PRECOMPILED_VALIDATORS_FILE, publishedSchema } from './session/validate.js';
+import { precompiledValidatorsPath, publishedSchema } from './session/validate.js';
 import { precompiledValidatorsSource } from './session/validatorSource.js';
 
 const input = readCatalogInput();
@@ -25,6 +23,6 @@ const texts = readTemplateTexts();
 writeFileSync(precompiledTemplatesPath(), precompiledTemplatesSource(texts));
 
 writeFileSync(
-  join(dirname(fileURLToPath(import.meta.url)), 'session', PRECOMPILED_VALIDATORS_FILE),
+  precompiledValidatorsPath(),
   precompiledValidatorsSource({ session: publishedSchema('session'), config: publishedSchema('config') }),
 );

@@ -21,7 +21,7 @@ import {
 } from '../src/session/validate.js';
 import { precompiledValidatorsSource } from '../src/session/validatorSource.js';
 import { parseYamlSource } from '../src/session/yamlSource.js';
-import { tempDir } from './build/helpers.js';
+import { DIST, tempDir } from './build/helpers.js';
 
 // Inside the project: the compiled code requires Ajv's runtime helpers from node_modules.
 const here = join(process.cwd(), 'node_modules', '.cache');
@@ -92,8 +92,8 @@ describe('precompiled validators', () => {
   });
 
   it('are made by the build for the program in dist/, from the schemas as they are now', () => {
-    const built = join('dist', 'session', PRECOMPILED_VALIDATORS_FILE);
-    expect(precompiledValidator(join(process.cwd(), built), 'session', SessionSchema)).not.toBeNull();
-    expect(precompiledValidator(join(process.cwd(), built), 'config', ProjectConfigSchema)).not.toBeNull();
+    const built = join(DIST, 'session', PRECOMPILED_VALIDATORS_FILE);
+    expect(precompiledValidator(built, 'session', SessionSchema)).not.toBeNull();
+    expect(precompiledValidator(built, 'config', ProjectConfigSchema)).not.toBeNull();
   });
 });

@@ -12,6 +12,7 @@ import type { AddressInfo } from 'node:net';
 import { basename, dirname, extname, join, relative, resolve, sep } from 'node:path';
 import type { Command } from 'commander';
 import { cspMeta, PAGE_CSP, PREVIEW_CSP, PREVIEW_CSP_HEADER } from '../report/csp.js';
+import { patchMarkerPrefix } from '../write/patch.js';
 import { CommandFailure, EXIT_OK, loadConfig } from './common.js';
 
 export const EVENTS_PATH = '/__lineledger/events';
@@ -213,7 +214,7 @@ export function startPreview(options: PreviewOptions): Promise<PreviewServer> {
   let timer: NodeJS.Timeout | undefined;
   if (options.watch !== false) {
     // A swap renames the site folder; a patch makes and removes its marker beside it.
-    const marker = `.${basename(root)}.patching-`;
+    const marker = patchMarkerPrefix(root);
     watcher = watch(dirname(root), (_event, name) => {
       const seen = name?.toString() ?? '';
       if (seen !== basename(root) && !seen.startsWith(marker)) return;

@@ -52,6 +52,10 @@ export function publishedSchema(name: SchemaName): JsonSchema {
 /** The validators the build compiled to code (validatorSource.ts), beside this module in dist/session/. */
 export const PRECOMPILED_VALIDATORS_FILE = 'validators.precompiled.cjs';
 
+export function precompiledValidatorsPath(): string {
+  return join(dirname(fileURLToPath(import.meta.url)), PRECOMPILED_VALIDATORS_FILE);
+}
+
 const requireHere = createRequire(import.meta.url);
 const AJV_VERSION = (requireHere('ajv/package.json') as { version: string }).version;
 
@@ -86,8 +90,9 @@ export function precompiledValidator<T>(
  * program start), else compiled here.
  */
 export function compileValidator<T>(schema: JsonSchema, name?: string): ValidateFunction<T> {
-  const file = join(dirname(fileURLToPath(import.meta.url)), PRECOMPILED_VALIDATORS_FILE);
-  return (name === undefined ? null : precompiledValidator<T>(file, name, schema)) ?? ajv.compile<T>(schema);
+  const ready =
+    name === undefined ? null : precompiledValidator<T>(precompiledValidatorsPath(), name, schema);
+  return ready ?? ajv.compile<T>(schema);
 }
 
 // Made on first use: commands that read no session (lookup, preview, a cached rebuild) never

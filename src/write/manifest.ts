@@ -50,9 +50,14 @@ export function verifiedEntries(manifest: Manifest | null): Map<string, Manifest
   return ok;
 }
 
+/** Path → SHA-256 of manifest entries. */
+export function hashesOf(entries: ReadonlyMap<string, ManifestEntry>): Map<string, string> {
+  return new Map([...entries].map(([path, entry]) => [path, entry.sha256]));
+}
+
 /** The files of the live site still exactly as the manifest recorded them: path → SHA-256. */
 export function verifiedFiles(manifest: Manifest | null): Map<string, string> {
-  return new Map([...verifiedEntries(manifest)].map(([path, entry]) => [path, entry.sha256]));
+  return hashesOf(verifiedEntries(manifest));
 }
 
 /** Every file under dir, as paths relative to it with forward slashes. */

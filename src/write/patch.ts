@@ -23,8 +23,13 @@ import { closeSync, mkdirSync, openSync, rmdirSync, rmSync, unlinkSync } from 'n
 import { basename, dirname, join } from 'node:path';
 import { renameRetrying, syncDir } from './swap.js';
 
+/** The start of a patch marker's name, beside the site (the process id follows). */
+export function patchMarkerPrefix(out: string): string {
+  return `.${basename(out)}.patching-`;
+}
+
 export function patchMarkerName(out: string, pid: number): string {
-  return join(dirname(out), `.${basename(out)}.patching-${pid}`);
+  return join(dirname(out), `${patchMarkerPrefix(out)}${pid}`);
 }
 
 export interface Patch {

@@ -7,7 +7,9 @@ import { makeArchive } from '../../scripts/make-archive.js';
 import type { BuildOptions } from '../../src/build.js';
 import { loadConfig } from '../../src/commands/common.js';
 
-export const CLI = join(process.cwd(), 'dist', 'cli.js');
+/** The compiled program, as `npm test` builds it before the tests. */
+export const DIST = join(process.cwd(), 'dist');
+export const CLI = join(DIST, 'cli.js');
 
 /** Every file under dir (relative path → contents), for byte-for-byte comparisons. */
 export function snapshot(dir: string): Map<string, string> {

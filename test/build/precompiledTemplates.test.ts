@@ -5,8 +5,7 @@
  * one byte for byte.
  */
 import { writeFileSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { readTemplateTexts } from '../../src/build.js';
 import {
@@ -14,9 +13,7 @@ import {
   precompiledTemplatesSource,
   readPrecompiledTemplates,
 } from '../../src/report/templates.js';
-import { tempDir } from './helpers.js';
-
-const root = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
+import { DIST, tempDir } from './helpers.js';
 
 describe('precompiled templates', () => {
   const texts = readTemplateTexts();
@@ -36,8 +33,6 @@ describe('precompiled templates', () => {
   });
 
   it('are made by the build for the program in dist/, from the templates as they are now', () => {
-    expect(
-      readPrecompiledTemplates(join(root, 'dist', 'report', PRECOMPILED_TEMPLATES_FILE), texts),
-    ).not.toBeNull();
+    expect(readPrecompiledTemplates(join(DIST, 'report', PRECOMPILED_TEMPLATES_FILE), texts)).not.toBeNull();
   });
 });

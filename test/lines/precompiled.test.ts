@@ -3,8 +3,7 @@
  * gives, and it is never used for files other than those it was made from.
  */
 import { writeFileSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { readCatalogInput } from '../../src/lines/load.js';
 import { parseCatalog } from '../../src/lines/parse.js';
@@ -13,9 +12,7 @@ import {
   readPrecompiledCatalog,
   writePrecompiledCatalog,
 } from '../../src/lines/precompiled.js';
-import { tempDir } from '../build/helpers.js';
-
-const root = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
+import { DIST, tempDir } from '../build/helpers.js';
 
 describe('precompiled catalog', () => {
   const input = readCatalogInput();
@@ -48,7 +45,7 @@ describe('precompiled catalog', () => {
 
   it('is made by the build for the program in dist/, from the files as they are now', () => {
     // npm test compiles (npm run build:ts) before it runs the tests.
-    const built = join(root, 'dist', 'lines', PRECOMPILED_CATALOG_FILE);
+    const built = join(DIST, 'lines', PRECOMPILED_CATALOG_FILE);
     expect(readPrecompiledCatalog(built, input)).toEqual(parsed);
   });
 
