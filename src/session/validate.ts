@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
+import type { Ajv as AjvInstance, ErrorObject, ValidateFunction } from 'ajv';
 import type { Diagnostic } from '../diagnostics.js';
 import type { SessionDocument } from './schema.js';
 import { didYouMean } from './suggest.js';
@@ -20,9 +20,6 @@ export const EXPECT_KEYWORD = { keyword: 'x-expect', schemaType: 'string' } as c
 
 /** A JSON Schema as a plain object (a TypeBox definition is one too). */
 export type JsonSchema = Record<string, unknown>;
-
-const ajv = new Ajv(AJV_OPTIONS);
-ajv.addKeyword(EXPECT_KEYWORD);
 
 /** The documents the program validates, each with its published schema in schema/. */
 export type SchemaName = 'session' | 'config';
@@ -59,6 +56,20 @@ export function precompiledValidatorsPath(): string {
 const requireHere = createRequire(import.meta.url);
 const AJV_VERSION = (requireHere('ajv/package.json') as { version: string }).version;
 
+/**
+ * Ajv itself (about 15 ms to load) only when a schema must be compiled here: with the build's
+ * precompiled validators a run needs just the small runtime helpers their code requires.
+ */
+let ajvInstance: AjvInstance | null = null;
+function runtimeAjv(): AjvInstance {
+  if (!ajvInstance) {
+    const { Ajv } = requireHere('ajv') as typeof import('ajv');
+    ajvInstance = new Ajv(AJV_OPTIONS);
+    ajvInstance.addKeyword(EXPECT_KEYWORD);
+  }
+  return ajvInstance;
+}
+
 /** What a compiled validator depends on: Ajv's version, its options and the schema. */
 export function validatorKey(schema: JsonSchema): string {
   return createHash('sha256')
@@ -92,7 +103,7 @@ export function precompiledValidator<T>(
 export function compileValidator<T>(schema: JsonSchema, name?: string): ValidateFunction<T> {
   const ready =
     name === undefined ? null : precompiledValidator<T>(precompiledValidatorsPath(), name, schema);
-  return ready ?? ajv.compile<T>(schema);
+  return ready ?? runtimeAjv().compile<T>(schema);
 }
 
 // Made on first use: commands that read no session (lookup, preview, a cached rebuild) never
