@@ -35,6 +35,28 @@ describe('reading sessions', () => {
     expect(d?.message).toContain('kind galaxy');
   });
 
+  it('defaults a line to what its source shows: absorption for stars and daylight, emission for emission-line stars', () => {
+    const kindOf = (source: string) => {
+      const r = readSessionText(`lineledger: 1\nsource: ${source}\nlines:\n  - wavelength: 468.6\n`, 's.yaml');
+      if (!r.ok) throw new Error('should read');
+      return r.value.lines[0]?.kind;
+    };
+    // A photosphere's and scattered sunlight's lines are dark; Wolf–Rayet stars, novae and
+    // supernovae show broad emission lines (Gray & Corbally 2009, Stellar Spectral
+    // Classification; from memory).
+    expect(kindOf('{ kind: star }')).toBe('absorption');
+    expect(kindOf('{ kind: star, class: cool-star }')).toBe('absorption');
+    expect(kindOf('{ kind: sky, class: daylight }')).toBe('absorption');
+    expect(kindOf('{ kind: star, class: wolf-rayet }')).toBe('emission');
+    expect(kindOf('{ kind: star, class: nova }')).toBe('emission');
+    expect(kindOf('{ kind: sky, class: aurora }')).toBe('emission');
+    const told = readSessionText(
+      'lineledger: 1\nsource: { kind: star, class: nova }\nlines:\n  - { wavelength: 393.4, kind: absorption }\n',
+      's.yaml',
+    );
+    expect(told.ok && told.value.lines[0]?.kind).toBe('absorption');
+  });
+
   it('maps intensity words to an increasing scale', () => {
     const r = readSessionText(
       'lineledger: 1\nlines:\n  - { wavelength: 500, intensity: very-weak }\n  - { wavelength: 501, intensity: very-strong }\n  - { wavelength: 502, intensity: 7.5 }\n',

@@ -18,7 +18,7 @@ import type {
   Session,
   ShiftRequest,
 } from './types.js';
-import { INTENSITY_WORDS, SOURCE_CLASS_KIND } from './vocabulary.js';
+import { defaultLineKind, INTENSITY_WORDS, SOURCE_CLASS_KIND } from './vocabulary.js';
 import { type FieldPath, fieldName, type YamlSource } from './yamlSource.js';
 
 /** The per-line keys that carry a position, by method. */
@@ -29,8 +29,6 @@ const POSITION_KEYS: Record<MeasurementMethod, readonly (keyof LineDocument)[]> 
   pixel: ['pixel'],
 };
 const ALL_POSITION_KEYS = Object.values(POSITION_KEYS).flat();
-
-const ABSORPTION_SOURCES = new Set(['star']);
 
 /**
  * A file name's id: lower-case letters, digits and dashes. A name with none of those
@@ -452,8 +450,7 @@ function readLine(
   }
   if (line.order === 0)
     problem([...at, 'order'], 'invalid-value', 'order 0 carries no wavelength information');
-  const kind: LineKind =
-    line.kind ?? (ABSORPTION_SOURCES.has(doc.source?.kind ?? '') ? 'absorption' : 'emission');
+  const kind: LineKind = line.kind ?? defaultLineKind(doc.source?.kind, doc.source?.class);
   return {
     index,
     position: source.positionOf(at),

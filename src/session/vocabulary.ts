@@ -51,3 +51,23 @@ export const METHODS = ['wavelength', 'grating-angle', 'screen', 'pixel'] as con
 export const WAVELENGTH_UNITS = ['nm', 'angstrom', 'um'] as const;
 export const INTENSITY_WORDS = ['very-weak', 'weak', 'medium', 'strong', 'very-strong'] as const;
 export const LINE_KINDS = ['emission', 'absorption'] as const;
+
+/**
+ * Classes of a star whose spectrum is mostly emission lines: Wolf–Rayet winds, novae and
+ * supernovae (Gray & Corbally 2009, Stellar Spectral Classification, chapters on Wolf–Rayet
+ * stars and novae; from memory).
+ */
+const EMISSION_STAR_CLASSES: ReadonlySet<string> = new Set(['wolf-rayet', 'nova', 'supernova']);
+
+/**
+ * A line's kind when the session does not say: absorption for stars (a photosphere seen
+ * through its own cooler layers) and for daylight (scattered sunlight, the Fraunhofer lines),
+ * except the emission-line stars above; emission for everything else.
+ */
+export function defaultLineKind(
+  kind: string | undefined,
+  cls: string | null | undefined,
+): (typeof LINE_KINDS)[number] {
+  if (kind === 'star') return cls && EMISSION_STAR_CLASSES.has(cls) ? 'emission' : 'absorption';
+  return kind === 'sky' && cls === 'daylight' ? 'absorption' : 'emission';
+}

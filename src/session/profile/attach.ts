@@ -9,6 +9,7 @@ import { NM_PER_ANGSTROM, NM_PER_MICROMETRE } from '../../constants.js';
 import type { Diagnostic } from '../../diagnostics.js';
 import type { ProfileDocument, SessionDocument } from '../schema.js';
 import type { Session, WavelengthUnit } from '../types.js';
+import { defaultLineKind } from '../vocabulary.js';
 import type { YamlSource } from '../yamlSource.js';
 import { readProfileBytes } from './read.js';
 import type { ProfileInput, ProfileProblem } from './types.js';
@@ -101,7 +102,7 @@ export function attachProfile(
         file: spec.file,
         sha256: createHash('sha256').update(input.bytes).digest('hex'),
         data,
-        kind: spec.kind ?? (session.source.kind === 'star' ? 'absorption' : 'emission'),
+        kind: spec.kind ?? defaultLineKind(session.source.kind, session.source.class),
         threshold_sigma: spec.threshold ?? DEFAULT_PROFILE_THRESHOLD,
         add: spec.add ?? [],
         drop: spec.drop ?? [],
