@@ -100,4 +100,18 @@ describe('real observations', () => {
     expect(r.lines[4]?.assignment?.species).toBe('H I');
     expect(r.lines.filter((l) => l.status === 'unexplained').length).toBeLessThanOrEqual(1);
   });
+
+  it('weighs a species its source expects on its own line even where a closer line of another takes it', () => {
+    // A blue gas flame read with a hand spectroscope: "~435 nm for CH, and 470 & 515 nm for C2"
+    // (experts123.com, 'Why are flames blue?', the development case flame-blue-gas-ch-c2-experts123).
+    // 435 lies between the CH head at 431.4 nm and the C2 heads at 436.5/438.3 nm (Pearse &
+    // Gaydon, the catalog's band heads); CH, which the gas-flame class expects (p 0.9), must be
+    // weighed as taking it, so "C2 and CH" is a rival and C2 alone is not sure.
+    const r = result(
+      `lineledger: 1\nsource: { kind: flame, class: gas-flame }\nlines_listed: selection\ninstrument: { resolution_nm: 5 }\nmeasurement: { sigma: 3 }\nlines:\n${lines([435, 470, 515])}\n`,
+    );
+    const rival = r.explanation.contenders.find((c) => c.species.join() === 'C2,CH');
+    expect(rival?.probability).toBeGreaterThan(0.1);
+    expect(r.explanation.confidence).toBeLessThan(0.9);
+  });
 });

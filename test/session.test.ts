@@ -37,7 +37,10 @@ describe('reading sessions', () => {
 
   it('defaults a line to what its source shows: absorption for stars and daylight, emission for emission-line stars', () => {
     const kindOf = (source: string) => {
-      const r = readSessionText(`lineledger: 1\nsource: ${source}\nlines:\n  - wavelength: 468.6\n`, 's.yaml');
+      const r = readSessionText(
+        `lineledger: 1\nsource: ${source}\nlines:\n  - wavelength: 468.6\n`,
+        's.yaml',
+      );
       if (!r.ok) throw new Error('should read');
       return r.value.lines[0]?.kind;
     };

@@ -9,7 +9,7 @@
 import { lowerBound } from '../lines/search.js';
 import type { EvidenceContext } from './evidence.js';
 import { lineMissCost, rankTerm } from './evidence.js';
-import { bestMatching } from './match.js';
+import { bestMatching, type ForcedPair, type MatchInput, matchingWith } from './match.js';
 import type { ContendingExplanation, Match, PreparedSpecies, RefLine } from './types.js';
 
 /** Real nebulae and the solar spectrum need 8–15 species. */
@@ -65,14 +65,37 @@ export function scoreSet(
     for (const k of p.touched) picked.push({ ref: p.refs[k] as RefLine, q: p.q[k] as number });
   }
   picked.sort((a, b) => a.ref.vacuum_nm - b.ref.vacuum_nm);
-  const { matches, gain } = bestMatching({
+  const input: MatchInput = {
     lines: ctx.points,
     refs: picked.map((x) => x.ref),
     cols: picked.map((_, k) => k),
     q: Float64Array.from(picked, (x) => x.q),
     fwhm_nm: ctx.fwhm_nm,
     background_per_nm: ctx.background_per_nm,
-  });
+  };
+  let { matches, gain } = bestMatching(input);
+  // A species the source makes more likely present than not (prior odds above 1) that loses
+  // every line to a closer line of another species is still weighed on its best line: the set
+  // "A and B" then means B's likeliest line is B's, at the fit it has, not B explaining nothing.
+  // (Hard assignment alone gives a line to the closer reference however weak that line is, so
+  // the source's expected species could never be weighed on its own evidence.)
+  const forced: ForcedPair[] = [];
+  for (const s of set) {
+    if (penaltyOf(s) >= 0 || matches.some((m) => m.ref.species === s)) continue;
+    let best: { matches: Match[]; gain: number; pair: ForcedPair } | null = null;
+    for (let k = 0; k < picked.length; k++) {
+      if ((picked[k] as { ref: RefLine }).ref.species !== s) continue;
+      for (let i = 0; i < ctx.points.length; i++) {
+        const pair = { line: i, ref: k };
+        const trial = matchingWith(input, [...forced, pair]);
+        if (trial && (best === null || trial.gain > best.gain)) best = { ...trial, pair };
+      }
+    }
+    if (best) {
+      forced.push(best.pair);
+      ({ matches, gain } = best);
+    }
+  }
   missCost -= hiddenMissCost(picked, matches, ctx);
   let ranks = 0;
   for (const s of set)
@@ -98,8 +121,10 @@ function hiddenMissCost(
   ctx: EvidenceContext,
 ): number {
   if (matches.length === 0) return 0;
-  // The matching never crosses (match.ts): its reference lines ascend with the measured ones.
-  const at = Float64Array.from(matches, (m) => m.ref.vacuum_nm);
+  // By reference position (an optimal matching never crosses, so this is usually its order;
+  // a matching with a forced pair may cross).
+  const byRef = [...matches].sort((a, b) => a.ref.vacuum_nm - b.ref.vacuum_nm);
+  const at = Float64Array.from(byRef, (m) => m.ref.vacuum_nm);
   const used = new Set(matches.map((m) => m.ref));
   let cost = 0;
   for (const { ref, q } of picked) {
@@ -108,7 +133,7 @@ function hiddenMissCost(
     const hi = ref.vacuum_nm + ctx.fwhm_nm;
     let hidden = false;
     for (let k = lowerBound(at, lo); k < at.length && (at[k] as number) < hi && !hidden; k++)
-      hidden = (at[k] as number) > lo && (matches[k] as Match).ref.species !== ref.species;
+      hidden = (at[k] as number) > lo && (byRef[k] as Match).ref.species !== ref.species;
     if (hidden) cost += lineMissCost(q, ctx.missWeight, ctx.strongMissWeight);
   }
   return cost;

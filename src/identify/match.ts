@@ -90,3 +90,45 @@ export function bestMatching(input: MatchInput): { matches: Match[]; gain: numbe
   matches.reverse();
   return { matches, gain: table[n * width + m] as number };
 }
+
+/** A measured line (index into lines) held to a reference (index into refs). */
+export interface ForcedPair {
+  line: number;
+  ref: number;
+}
+
+/**
+ * The best matching in which each forced reference takes its measured line: those pairs'
+ * gains plus the best matching of the other lines to the other references. Null when a pair
+ * is outside its window or no better than background (bestMatching takes only gains above 0),
+ * or two pairs share a line. The rest may cross the forced pairs (matches come back sorted by
+ * line).
+ */
+export function matchingWith(
+  input: MatchInput,
+  forced: readonly ForcedPair[],
+): { matches: Match[]; gain: number } | null {
+  const held: Match[] = [];
+  let heldGain = 0;
+  for (const pair of forced) {
+    const line = input.lines[pair.line] as MeasuredPoint;
+    const ref = input.refs[pair.ref] as RefLine;
+    const sigma = pairSigma(line.sigma_nm, ref.unc_nm, input.fwhm_nm);
+    const delta = line.vacuum_nm - ref.vacuum_nm;
+    if (Math.abs(delta) > WINDOW_SIGMAS * sigma || held.some((m) => m.line === pair.line)) return null;
+    const gain = matchGain(delta, sigma, input.q[pair.ref] as number, input.background_per_nm);
+    if (gain <= 0) return null;
+    held.push({ line: pair.line, ref, residual_nm: delta, gain });
+    heldGain += gain;
+  }
+  const others = input.lines.map((_, i) => i).filter((i) => !forced.some((p) => p.line === i));
+  const rest = bestMatching({
+    ...input,
+    lines: others.map((i) => input.lines[i] as MeasuredPoint),
+    cols: input.cols.filter((c) => !forced.some((p) => p.ref === c)),
+  });
+  const matches = rest.matches.map((m) => ({ ...m, line: others[m.line] as number }));
+  matches.push(...held);
+  matches.sort((a, b) => a.line - b.line);
+  return { matches, gain: rest.gain + heldGain };
+}

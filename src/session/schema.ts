@@ -208,7 +208,12 @@ const Line = Type.Object(
     ),
     sigma: Type.Optional(NonNegativeNumber("Uncertainty of this reading, in the reading's unit")),
     intensity: Type.Optional(Intensity),
-    kind: Type.Optional(words(LINE_KINDS, 'Emission or absorption (default: absorption for stars but Wolf–Rayet stars, novae and supernovae, and for daylight; else emission)')),
+    kind: Type.Optional(
+      words(
+        LINE_KINDS,
+        'Emission or absorption (default: absorption for stars but Wolf–Rayet stars, novae and supernovae, and for daylight; else emission)',
+      ),
+    ),
     width_nm: Type.Optional(NonNegativeNumber('Observed FWHM')),
     label: Type.Optional(Type.String({ maxLength: 200 })),
     order: Type.Optional(
@@ -241,7 +246,10 @@ const Profile = Type.Object(
       'x-expect': 'a file name beside the session, such as tube-c.csv',
     }),
     kind: Type.Optional(
-      words(LINE_KINDS, 'Look for emission peaks or absorption dips (default: absorption for stars but Wolf–Rayet stars, novae and supernovae, and for daylight)'),
+      words(
+        LINE_KINDS,
+        'Look for emission peaks or absorption dips (default: absorption for stars but Wolf–Rayet stars, novae and supernovae, and for daylight)',
+      ),
     ),
     threshold: Type.Optional(
       Type.Number({
