@@ -22,6 +22,8 @@ export interface SessionPriors {
   intensities: IntensityCondition;
   /** Scatter of this source's line centres about their rest wavelengths, km/s (0: none). */
   lineScatter_km_s: number;
+  /** Prior of a species the file does not name for this source; null: the uninformed prior. */
+  othersP: number | null;
 }
 
 /** Entries of one set, per species: a species named on its own beats a group naming it. */
@@ -38,8 +40,9 @@ export function sessionPriors(session: Session, catalog: Catalog): SessionPriors
   const kind = catalog.priors.kinds.get(session.source.kind);
   const cls = session.source.class ? catalog.priors.classes.get(session.source.class) : undefined;
   const named = new Map<string, PriorEntry>();
-  perSpecies(kind, named);
-  // The class overrides its kind species by species.
+  // The class overrides its kind species by species; a class that gives `others` names all it
+  // expects, so its kind's broad entries (any tube gas in any lamp) do not reach it.
+  if (!cls?.others) perSpecies(kind, named);
   perSpecies(cls, named);
   return {
     named,
@@ -48,12 +51,17 @@ export function sessionPriors(session: Session, catalog: Catalog): SessionPriors
     labIntensities: cls?.lab_intensities ?? kind?.lab_intensities ?? 'trust',
     intensities: cls?.intensities ?? kind?.intensities ?? 'lab',
     lineScatter_km_s: (cls?.line_scatter ?? kind?.line_scatter)?.km_s ?? 0,
+    othersP: (cls?.others ?? kind?.others)?.p ?? null,
   };
 }
 
-/** Negative log prior odds of a species, nats; `uninformed` for one the file does not name. */
+/**
+ * Negative log prior odds of a species, nats. One the file does not name takes the source's
+ * `others` prior where it gives one (never kinder than the uninformed prior), else `uninformed`.
+ */
 export function priorPenalty(priors: SessionPriors, species: string, uninformed: number): number {
   const e = priors.named.get(species);
-  if (!e) return uninformed;
-  return Math.log((1 - e.p) / e.p);
+  if (e) return Math.log((1 - e.p) / e.p);
+  if (priors.othersP === null) return uninformed;
+  return Math.max(uninformed, Math.log((1 - priors.othersP) / priors.othersP));
 }

@@ -67,6 +67,7 @@ export function parsePriors(
       lab_intensities: null,
       intensities: null,
       line_scatter: null,
+      others: null,
       priors: [],
     };
     if (node === null || node === undefined || (isScalar(node) && node.value === null)) return set;
@@ -128,6 +129,23 @@ export function parsePriors(
           `${field}.line_scatter`,
           `line_scatter is a map of km_s (0 to ${MAX_LINE_SCATTER_KM_S}), reason and source`,
         );
+    }
+    const others = map.get('others', true);
+    if (others !== undefined) {
+      const p = isMap(others) ? others.get('p') : undefined;
+      const reason = isMap(others) ? others.get('reason') : undefined;
+      const source = isMap(others) ? others.get('source') : undefined;
+      if (
+        typeof p === 'number' &&
+        p > 0 &&
+        p < 1 &&
+        typeof reason === 'string' &&
+        reason.trim() &&
+        typeof source === 'string' &&
+        source.trim()
+      )
+        set.others = { p, reason, source };
+      else fail(others, `${field}.others`, 'others is a map of p (between 0 and 1), reason and source');
     }
     const list = map.get('priors', true);
     if (list === undefined) return set;

@@ -102,6 +102,12 @@ export interface SourcePriorSet {
    * source's redshift (the broad lines of quasars shift against each other), with its reason.
    */
   line_scatter: { km_s: number; reason: string; source: string } | null;
+  /**
+   * The prior of each species this set does not name, where the source's make-up is known
+   * (a fluorescent lamp holds mercury, its fill gas and its phosphors, hardly anything else);
+   * null: the model's uninformed prior.
+   */
+  others: { p: number; reason: string; source: string } | null;
   priors: PriorEntry[];
 }
 

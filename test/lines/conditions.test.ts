@@ -1,8 +1,10 @@
 /** Line strengths by condition (data/lines/conditions.tsv): the loader, the join and their errors. */
 import { describe, expect, it } from 'vitest';
+import { priorPenalty, sessionPriors } from '../../src/identify/priors.js';
 import { CONDITION_MATCH_NM } from '../../src/lines/conditions.js';
 import { type CatalogInput, parseCatalog } from '../../src/lines/parse.js';
 import { runSession } from '../../src/pipeline.js';
+import type { Session } from '../../src/session/types.js';
 import { bundledCatalog } from '../helpers/catalog.js';
 
 const HEADER_LINES = 'species\tvacuum_nm\tair_nm\tunc_nm\tintensity\tflags\tsource\torigin';
@@ -121,6 +123,34 @@ describe('conditions.tsv', () => {
       reason: 'r',
       source: 's',
     });
+  });
+
+  it('priors.yaml: others needs p in (0, 1), a reason and a source; a class with it names all it expects', () => {
+    const bad = parseCatalog(
+      input(HEADER_CONDITIONS, 'classes:\n  fluorescent:\n    others: { p: 2, reason: r, source: s }\n'),
+    );
+    if (bad.ok) throw new Error('expected an error');
+    expect(bad.diagnostics[0]).toMatchObject({
+      file: 'priors.yaml',
+      line: 3,
+      field: 'classes.fluorescent.others',
+    });
+    const priors =
+      'kinds:\n  lamp:\n    priors:\n      - { species: Y I, p: 0.3, reason: r, source: s }\n' +
+      'classes:\n  fluorescent:\n    others: { p: 0.01, reason: r, source: s }\n    priors:\n      - { species: X I, p: 0.9, reason: r, source: s }\n';
+    const good = parseCatalog(input(HEADER_CONDITIONS, priors));
+    if (!good.ok) throw new Error(JSON.stringify(good.diagnostics));
+    const session = (cls: string | null) =>
+      ({ source: { kind: 'lamp', class: cls }, lines_listed: null }) as unknown as Session;
+    const closed = sessionPriors(session('fluorescent'), good.value);
+    // X I is named (log odds of 0.9); Y I, named only by the kind, takes the class's others prior.
+    expect(priorPenalty(closed, 'X I', 2)).toBeCloseTo(Math.log(0.1 / 0.9), 9);
+    expect(priorPenalty(closed, 'Y I', 2)).toBeCloseTo(Math.log(0.99 / 0.01), 9);
+    // Never kinder than the uninformed prior; without a class, the kind's entries and the uninformed prior.
+    expect(priorPenalty(closed, 'Z I', 6)).toBe(6);
+    const open = sessionPriors(session(null), good.value);
+    expect(priorPenalty(open, 'Y I', 2)).toBeCloseTo(Math.log(0.7 / 0.3), 9);
+    expect(priorPenalty(open, 'Z I', 2)).toBe(2);
   });
 
   it('the bundled table loads, and gives Na D in a flame the 2:1 ratio of the upper levels 2J+1', () => {
