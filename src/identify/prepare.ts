@@ -68,9 +68,13 @@ export function refsInRange(
     const prev = group.at(-1);
     const here = lines.vacuum_nm[k] as number;
     const before = prev === undefined ? Number.NaN : (lines.vacuum_nm[prev] as number);
+    // A blend spans at most one resolution element from its first line: lines each within
+    // reach of the next would otherwise chain across several elements (six Fe II lines of
+    // 500.3–502.0 nm at 1.5 nm merged into one "line" at 500.9, where no feature is).
+    const first = group.length > 0 ? (lines.vacuum_nm[group[0] as number] as number) : Number.NaN;
     if (
       prev !== undefined &&
-      (here - before >= fwhm_nm || (resolvedBy !== null && resolvedBetween(before, here, resolvedBy)))
+      (here - first >= fwhm_nm || (resolvedBy !== null && resolvedBetween(before, here, resolvedBy)))
     )
       flush();
     group.push(k);
