@@ -114,4 +114,19 @@ describe('real observations', () => {
     expect(rival?.probability).toBeGreaterThan(0.1);
     expect(r.explanation.confidence).toBeLessThan(0.9);
   });
+
+  it('a telluric absorption band never explains an emission line (Fraunhofer A and B, O2 759.370 and 686.719 nm)', () => {
+    // The A and B heads as the catalog reads them (Wikipedia, 'Fraunhofer lines', the source of
+    // the telluric O2 rows). Seen as dark lines in daylight they are O2; as bright lines they are not.
+    const session = (kind: string) =>
+      `lineledger: 1\nsource: { kind: sky }\ninstrument: { resolution_nm: 0.5 }\nmeasurement: { sigma: 0.1 }\nlines:\n  - { wavelength: 686.72, kind: ${kind} }\n  - { wavelength: 759.37, kind: ${kind} }\n`;
+    const dark = result(session('absorption'));
+    expect(dark.lines.every((l) => l.assignment?.species === 'O2')).toBe(true);
+    const bright = result(session('emission'));
+    // Neither assigned (identified or tentative) nor offered as an alternative.
+    const o2 = bright.lines.filter(
+      (l) => l.assignment?.species === 'O2' || l.alternatives.some((a) => a.species === 'O2'),
+    );
+    expect(o2).toEqual([]);
+  });
 });

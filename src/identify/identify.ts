@@ -242,6 +242,9 @@ function weighAtRest(reduction: Reduction, catalog: Catalog) {
     flatIntensities: false,
   };
 
+  // A band seen only in absorption (the telluric O2 and H2O bands, flag `absorption-only`)
+  // cannot be an emission line: in a session of emission lines its rows take no part.
+  const emissionOnly = sorted.every((l) => l.kind === 'emission');
   const prepared = new Map<string, PreparedSpecies>();
   const evidence: SpeciesEvidence[] = [];
   for (const name of pool) {
@@ -257,7 +260,9 @@ function weighAtRest(reduction: Reduction, catalog: Catalog) {
     const refs = refsInRange(condition, range[0] / scale, range[1] / scale, fwhm / scale, {
       points: Float64Array.from(points, (p) => p.vacuum_nm / scale),
       halfWidth_nm: (WINDOW_SIGMAS * pairSigma(medianSigma, 0, fwhm)) / scale,
-    }).map((r) => (scale === 1 ? r : { ...r, vacuum_nm: r.vacuum_nm * scale }));
+    })
+      .filter((r) => !(emissionOnly && r.flags.includes('absorption-only')))
+      .map((r) => (scale === 1 ? r : { ...r, vacuum_nm: r.vacuum_nm * scale }));
     if (refs.length === 0) continue;
     const result = evaluateSpecies(name, refs, own, telluric);
     prepared.set(name, result.prepared);
