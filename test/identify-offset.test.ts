@@ -1,5 +1,6 @@
 /** A reading offset fitted as a nuisance parameter (issue 10), on published Hg I lines. */
 import { describe, expect, it } from 'vitest';
+import { offsetOccamCost } from '../src/identify/scaleOffset.js';
 import { runSession } from '../src/pipeline.js';
 import { buildResult } from '../src/report/result.js';
 import { bundledCatalog } from './helpers/catalog.js';
@@ -40,5 +41,34 @@ describe('reading offset', () => {
     const fit = result(-0.5).r.scale_correction;
     expect(fit).not.toBeNull();
     expect(Math.abs((fit?.offset_nm ?? 0) + 0.5)).toBeLessThan(2 * (fit?.offset_sigma_nm ?? 0));
+  });
+
+  it("charges the offset's Occam factor: the Laplace evidence ratio, checked by numerical integration", () => {
+    // A Gaussian likelihood in the offset a, peaked at â with width σ, under the prior N(0, w²):
+    // ln[ L(â) / ∫ L(a) N(a; 0, w²) da ] is what fitting a costs, integrated here by the
+    // trapezoid rule on a fine grid (independent of the closed form in scaleOffset.ts).
+    for (const [a, sigma, w] of [
+      [0.5, 0.1, 1.5],
+      [1.18, 0.39, 2],
+      [0.05, 0.2, 0.5],
+    ] as const) {
+      const step = w / 2000;
+      let integral = 0;
+      for (let x = -12 * w; x <= 12 * w; x += step) {
+        const like = Math.exp(-((x - a) ** 2) / (2 * sigma * sigma));
+        const prior = Math.exp(-(x * x) / (2 * w * w)) / (w * Math.sqrt(2 * Math.PI));
+        integral += like * prior * step;
+      }
+      // The fitted offset is the posterior mode; its likelihood there, L(mode), is what the gain measures.
+      const s2 = 1 / (1 / (sigma * sigma) + 1 / (w * w));
+      const mode = (a / (sigma * sigma)) * s2;
+      const atMode = Math.exp(-((mode - a) ** 2) / (2 * sigma * sigma));
+      const exact = Math.log(atMode / integral);
+      const cost = offsetOccamCost(
+        { offset_nm: mode, offset_sigma_nm: Math.sqrt(s2), scale: 0, lines_used: 2 },
+        w,
+      );
+      expect(cost).toBeCloseTo(exact, 1);
+    }
   });
 });

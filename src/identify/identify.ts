@@ -31,7 +31,12 @@ import {
 import { displayName } from './notation.js';
 import { conditionLines, refsInRange } from './prepare.js';
 import { priorPenalty, sessionPriors } from './priors.js';
-import { applyReadingOffset, describeReadingOffset, fitReadingOffset } from './scaleOffset.js';
+import {
+  applyReadingOffset,
+  describeReadingOffset,
+  fitReadingOffset,
+  offsetOccamCost,
+} from './scaleOffset.js';
 import { searchShift } from './shiftSearch.js';
 import { describeExplanation } from './summary.js';
 import type {
@@ -183,7 +188,7 @@ function withReadingOffset(
   const identified = (idn: Identification) =>
     idn.lines.filter((l) => l.status === 'identified' && !(l.assignment && toFaintLine(l.assignment))).length;
   const gain = second.explanation.score - first.explanation.score;
-  if (gain < 0 || identified(second) < identified(first)) return null;
+  if (gain < offsetOccamCost(fit, first.fwhm_nm) || identified(second) < identified(first)) return null;
   const display = (s: string) => second.display[s] ?? s;
   return {
     reduction: correctedReduction,

@@ -96,6 +96,25 @@ export function fitReadingOffset(
   };
 }
 
+/**
+ * What fitting the correction costs in nats: the Occam factor of each fitted parameter (Laplace
+ * approximation of its marginal likelihood under its prior, e.g. MacKay 2003, Information Theory,
+ * Inference and Learning Algorithms, ch. 28; from memory). For the offset, of prior N(0, w²) and
+ * posterior width σ: ½ ln(w²/σ²) + a²/(2w²). Two lines can always be moved onto some pair of
+ * reference lines by an offset; only a correction that explains the lines better than that
+ * freedom alone would is kept. A scale term has no stated prior: it costs ½ ln n (the Bayesian
+ * information criterion, n the lines used).
+ */
+export function offsetOccamCost(
+  fit: Pick<ScaleCorrection, 'offset_nm' | 'offset_sigma_nm' | 'scale' | 'lines_used'>,
+  prior_nm: number,
+): number {
+  const w2 = prior_nm * prior_nm;
+  const s2 = Math.min(w2, fit.offset_sigma_nm * fit.offset_sigma_nm);
+  const offset = 0.5 * Math.log(w2 / s2) + (fit.offset_nm * fit.offset_nm) / (2 * w2);
+  return offset + (fit.scale === 0 ? 0 : 0.5 * Math.log(fit.lines_used));
+}
+
 /** The reduction with the fitted correction removed from the rest-frame wavelengths. */
 export function applyReadingOffset(
   reduction: Reduction,
