@@ -129,4 +129,19 @@ describe('real observations', () => {
     );
     expect(o2).toEqual([]);
   });
+
+  it('confirms the species every rival explanation holds, while the rest stays in doubt', () => {
+    // A full-spectrum fluorescent tube read with a CD spectroscope: Hg I 435, 546 and 577/579 nm
+    // and phosphor peaks at 450, 542 and 611 nm (njsas.org, 'Using the Mini Spectroscope', the
+    // development case fluorescent-full-spectrum-njsas). Which phosphors are there is uncertain;
+    // mercury is not.
+    const r = result(
+      `lineledger: 1\nsource: { kind: lamp, class: fluorescent }\nlines_listed: selection\ninstrument: { resolution_nm: 2 }\nmeasurement: { sigma: 1 }\nlines:\n${lines([435, 450, 542, 546, 578, 611])}\n`,
+    );
+    expect(r.status).toBe('ambiguous');
+    const hg = r.lines.filter((l) => l.assignment?.species === 'Hg I');
+    expect(hg.length).toBe(3);
+    for (const l of hg) expect(l.status).toBe('identified');
+    expect(r.summary).toContain('confirmed: Hg I');
+  });
 });

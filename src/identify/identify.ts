@@ -307,7 +307,10 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
     background_per_nm: ctx.background_per_nm,
     leftovers: sorted.length - assignedByPoint.size,
   };
-  const confirmed = (sp: string) => status === 'identified' && (shareOf.get(sp) ?? 0) >= IDENTIFIED_THRESHOLD;
+  // A species of the answer is confirmed when (nearly) every weighed explanation holds it, even
+  // while the exact set is in doubt: Hg I in a tube whose phosphors are uncertain is still Hg I.
+  const confirmed = (sp: string) =>
+    status !== 'unexplained' && chosenSet.has(sp) && (shareOf.get(sp) ?? 0) >= IDENTIFIED_THRESHOLD;
   const lines: AssignedLine[] = sorted.map((line, i) => {
     const point = points[i] as MeasuredPoint;
     const m = assignedByPoint.get(i);
@@ -318,8 +321,7 @@ export function identifyAtRest(reduction: Reduction, catalog: Catalog): Identifi
       ref = m.ref;
       // The line's species is confirmed when it is in (nearly) every weighed explanation.
       probability = shareOf.get(m.ref.species) ?? rawConfidence;
-      lineStatus =
-        status === 'identified' && probability >= IDENTIFIED_THRESHOLD ? 'identified' : 'tentative';
+      lineStatus = confirmed(m.ref.species) ? 'identified' : 'tentative';
     } else {
       const guess = tentativeFor(
         point,

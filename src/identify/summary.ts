@@ -66,7 +66,15 @@ export function describeExplanation(
         decide && unit !== undefined
           ? ` — measure ${unit.toFixed(1)} nm (${shown(decide.species)}) to decide`
           : '';
-      return `Ambiguous: ${rivals}${hint}; best guess ${names(source)}${sky} (${percent(e.confidence)})${tentative}; ${unexplained}.`;
+      // Species every weighed explanation holds are confirmed whatever the rest turns out to be.
+      const sure = new Map<string, number>();
+      for (const l of lines)
+        if (l.status === 'identified' && l.assignment && !e.telluric.includes(l.assignment.species))
+          sure.set(l.assignment.species, l.probability);
+      const confirmed = sure.size
+        ? `; confirmed: ${[...sure].map(([sp, p]) => `${shown(sp)} (${percent(p)})`).join(', ')}`
+        : '';
+      return `Ambiguous: ${rivals}${hint}${confirmed}; best guess ${names(source)}${sky} (${percent(e.confidence)})${tentative}; ${unexplained}.`;
     }
   }
 }
