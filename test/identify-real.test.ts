@@ -144,4 +144,19 @@ describe('real observations', () => {
     for (const l of hg) expect(l.status).toBe('identified');
     expect(r.summary).toContain('confirmed: Hg I');
   });
+
+  it('swaps a species for a better one when adding cannot: Balmer emission is H I, not He II', () => {
+    // T Tauri with Hβ 4861 and Hα 6563 Å in emission and the telluric O2 6867, H2O 7200 and O2
+    // 7594 Å bands (osservatoriofoligno.altervista.org, the development case
+    // star-cool-t-tauri-foligno). He II's Pickering lines 485.9 and 656.0 nm lie on Hβ and Hα:
+    // once He II holds both, H I cannot join without leaving He II nothing, so only a swap finds
+    // the answer.
+    const r = result(
+      'lineledger: 1\nsource: { kind: star, class: cool-star }\nlines_listed: selection\ninstrument: { resolution_nm: 1 }\nmeasurement: { unit: angstrom, sigma: 3 }\nlines:\n  - { wavelength: 4861, kind: emission, intensity: strong }\n  - { wavelength: 6563, kind: emission, intensity: strong }\n  - { wavelength: 6867, kind: absorption }\n  - { wavelength: 7200, kind: absorption }\n  - { wavelength: 7594, kind: absorption }\n',
+    );
+    expect(r.explanation.species).toContain('H I');
+    expect(r.explanation.species).not.toContain('He II');
+    expect(r.lines[0]?.assignment?.species).toBe('H I');
+    expect(r.lines[1]?.assignment?.species).toBe('H I');
+  });
 });

@@ -182,29 +182,50 @@ export function selectMixture(
     visited.set(key, scored);
     return scored;
   };
-  let current = score([]);
-  while (current.species.length < MAX_SPECIES) {
-    let next: ScoredSet | null = null;
-    for (const s of pool) {
-      if (current.species.includes(s) || !mayJoin.has(s)) continue;
-      const trial = score([...current.species, s]);
-      // A species joins only for the lines it explains, never for its prior alone.
-      if (!trial.matches.some((m) => m.ref.species === s)) continue;
-      if (next === null || trial.total > next.total) next = trial;
-    }
-    if (next === null || next.total <= current.total) break;
-    current = next;
-  }
-  // Neighbours of the answer, so the posterior knows its rivals.
-  for (const s of current.species) score(current.species.filter((x) => x !== s));
-  for (const c of pool) {
-    if (current.species.includes(c)) continue;
-    score([...current.species, c]);
-    for (const s of current.species) score([...current.species.filter((x) => x !== s), c]);
-  }
   // A set in which some species explains no line is not an explanation of these lines (a strong
   // prior alone would otherwise lift it above the answer).
   const explains = (v: ScoredSet) => v.species.every((sp) => v.matches.some((m) => m.ref.species === sp));
+  // An answer may hold only species allowed to join (the chance guard) and must explain with each.
+  const admissible = (v: ScoredSet) => explains(v) && v.species.every((sp) => mayJoin.has(sp));
+  /** Forward selection from `start`: add the species that raises the total most, while one does. */
+  const grow = (start: ScoredSet): ScoredSet => {
+    let current = start;
+    while (current.species.length < MAX_SPECIES) {
+      let next: ScoredSet | null = null;
+      for (const s of pool) {
+        if (current.species.includes(s) || !mayJoin.has(s)) continue;
+        const trial = score([...current.species, s]);
+        // A species joins only for the lines it explains, never for its prior alone, and not by
+        // taking the last line of one already in (which would then explain nothing).
+        if (!explains(trial)) continue;
+        if (next === null || trial.total > next.total) next = trial;
+      }
+      if (next === null || next.total <= current.total) break;
+      current = next;
+    }
+    return current;
+  };
+  /** Neighbours of an answer (one species dropped, added or swapped), so the posterior knows its rivals. */
+  const neighbours = (current: ScoredSet) => {
+    for (const s of current.species) score(current.species.filter((x) => x !== s));
+    for (const c of pool) {
+      if (current.species.includes(c)) continue;
+      score([...current.species, c]);
+      for (const s of current.species) score([...current.species.filter((x) => x !== s), c]);
+    }
+  };
+  // Greedy growth can stop at a set no single addition improves while a swap does (He II taking
+  // both Balmer lines its Pickering lines coincide with, so that H I could not join without
+  // leaving He II nothing): move to the best admissible neighbour and grow again, until none beats
+  // the answer.
+  let current = grow(score([]));
+  for (let round = 0; round < 4; round++) {
+    neighbours(current);
+    let best = current;
+    for (const v of visited.values()) if (admissible(v) && v.total > best.total) best = v;
+    if (best === current) break;
+    current = grow(best);
+  }
   return { best: current, visited: [...visited.values()].filter(explains) };
 }
 
