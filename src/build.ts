@@ -28,6 +28,7 @@ import {
   type SiteSettings,
 } from './report/site.js';
 import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
+import { profileFileOf } from './session/profile/ref.js';
 import type { InstrumentSpec } from './session/types.js';
 import { checkBuildTargets } from './write/guard.js';
 import { hashesOf, readManifest, verifiedEntries, writeManifest } from './write/manifest.js';
@@ -240,9 +241,9 @@ export async function buildSite(
     instrumentDefaults,
   });
   // Unreadable files have no key: they are never cached.
-  const refs = store ? new ProfileRefMemo(store.dir) : null;
-  const refOf = refs ? (bytes: Uint8Array) => refs.refOf(bytes) : undefined;
-  const profiles = inputs.map((i) => ('bytes' in i ? readProfileInput(i.path, i.bytes, read, refOf) : null));
+  const refs = store ? new ProfileRefMemo(store.dir, profileFileOf) : null;
+  const refOf = refs ? (bytes: Uint8Array) => refs.refOf(bytes) : profileFileOf;
+  const profiles = inputs.map((i) => ('bytes' in i ? readProfileInput(i.path, i.bytes, refOf, read) : null));
   if (profiles.some((p) => p !== null && 'problem' in p)) stampable = false;
   const keys = inputs.map((i, n) =>
     'bytes' in i ? sessionKey(context, i.path.replace(/^.*[\\/]/, ''), i.bytes, profiles[n] ?? null) : '',

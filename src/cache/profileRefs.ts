@@ -8,7 +8,6 @@
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { profileFileOf } from '../session/profile/ref.js';
 import { writeAtomically } from './atomicWrite.js';
 
 export const PROFILE_REFS_FILE = 'profile-refs.json';
@@ -34,17 +33,24 @@ export class ProfileRefMemo {
   private readonly used: Refs = {};
   private changed = false;
 
-  constructor(cacheDir: string) {
+  /**
+   * `parse` finds the profile a session names (session/profile/ref.ts profileFileOf); passed in
+   * so that the cache, which every rebuild opens, does not load the YAML library itself.
+   */
+  constructor(
+    cacheDir: string,
+    private readonly parse: (bytes: Uint8Array) => string | null,
+  ) {
     this.path = join(cacheDir, PROFILE_REFS_FILE);
     this.known = readRefs(this.path);
   }
 
-  /** The profile file the session names (see profileFileOf), parsed only for new bytes. */
+  /** The profile file the session names, parsed only for new bytes. */
   refOf(bytes: Uint8Array): string | null {
     const hash = createHash('sha256').update(bytes).digest('hex');
     let ref = this.known[hash];
     if (ref === undefined) {
-      ref = profileFileOf(bytes);
+      ref = this.parse(bytes);
       this.changed = true;
     }
     this.used[hash] = ref;

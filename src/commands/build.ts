@@ -15,10 +15,9 @@ import {
 import type { ProjectConfigDocument } from '../config/schema.js';
 import { escapeControls } from '../diagnostics.js';
 import { listSessionFiles, readSessionInput } from '../input/sessionFiles.js';
-import { bundledDataDir } from '../lines/load.js';
+import { bundledDataDir } from '../lines/dataDir.js';
 import type { Catalog } from '../lines/types.js';
 import { createProgress, type Verbosity } from '../progress/reporter.js';
-import { parseYamlSource } from '../session/yamlSource.js';
 import { PROGRAM_VERSION } from '../version.js';
 import { TargetRefused } from '../write/guard.js';
 import { hasLeftovers } from '../write/swap.js';
@@ -76,9 +75,12 @@ async function plan(dirArg: string | undefined, opts: BuildFlags) {
  * find the up-to-date stamp, which vouches for it only if the file is unchanged since a build
  * that validated it. null when it does not even parse (the build reports why).
  */
-function unvalidatedConfig(file: string | undefined): ProjectConfig | null {
+async function unvalidatedConfig(file: string | undefined): Promise<ProjectConfig | null> {
   if (file === undefined) return defaultConfig();
   try {
+    // The YAML library only when there is a config to read: a rebuild of an archive without
+    // one that finds nothing changed never loads it.
+    const { parseYamlSource } = await import('../session/yamlSource.js');
     const parsed = parseYamlSource(readFileSync(file, 'utf8'), file);
     return parsed.source
       ? configFromDocument(parsed.source.data as ProjectConfigDocument, resolve(file))
@@ -106,11 +108,11 @@ function cacheDirOf(out: string, opts: BuildFlags): string | null {
 }
 
 /** The last build's sessions when nothing it read or was asked has changed since; else null. */
-function lastBuildIfUnchanged(dirArg: string | undefined, opts: BuildFlags) {
+async function lastBuildIfUnchanged(dirArg: string | undefined, opts: BuildFlags) {
   // With --pdf the records are printed afresh, so the build runs in full.
   if (opts.pdf) return null;
   const configFile = configFileOf(opts);
-  const config = unvalidatedConfig(configFile);
+  const config = await unvalidatedConfig(configFile);
   if (config === null) return null;
   const { dir, out } = placesOf(config, dirArg, opts);
   const cacheDir = cacheDirOf(out, opts);
@@ -185,7 +187,7 @@ function printOutcome(o: Outcome, dir: string, out: string, opts: BuildFlags): v
 
 async function buildOnce(dirArg: string | undefined, opts: BuildFlags): Promise<number> {
   const started = performance.now();
-  const known = lastBuildIfUnchanged(dirArg, opts);
+  const known = await lastBuildIfUnchanged(dirArg, opts);
   if (known !== null) {
     const failed = known.sessions.filter((s) => !s.ok).length;
     const ms = Math.round(performance.now() - started);

@@ -6,6 +6,7 @@ import { runSession } from '../pipeline.js';
 import { display, fixed, percent, probability } from '../report/format.js';
 import { buildResult, type ResultJson } from '../report/result.js';
 import { evidenceWords } from '../report/wording.js';
+import { profileFileOf } from '../session/profile/ref.js';
 import { PROGRAM_VERSION } from '../version.js';
 import {
   EXIT_CANNOT_RUN,
@@ -62,7 +63,7 @@ function identify(file: string, opts: { json?: boolean; config?: string }): numb
   const catalog = loadCatalogFor(config);
   const outcome = runSession(file, bytes, catalog, {
     instrumentDefaults: config.defaultInstrument,
-    profile: readProfileInput(file, bytes),
+    profile: readProfileInput(file, bytes, profileFileOf),
   });
   const text = bytes.toString('utf8');
   if (!outcome.ok) {

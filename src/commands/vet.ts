@@ -13,6 +13,7 @@ import { readProfileInput, readSessionInput } from '../input/sessionFiles.js';
 import type { Catalog } from '../lines/types.js';
 import { outOfRangeWarnings } from '../reduce/range.js';
 import { reduceSession } from '../reduce/reduce.js';
+import { profileFileOf } from '../session/profile/ref.js';
 import { type ReadOptions, readSessionText } from '../session/read.js';
 import { parseFieldName, parseYamlSource } from '../session/yamlSource.js';
 import {
@@ -168,7 +169,7 @@ function vet(paths: string[], opts: VetFlags): number {
       return [
         vetSession(path, input.bytes, catalog, {
           instrumentDefaults: config.defaultInstrument,
-          profile: readProfileInput(path, input.bytes),
+          profile: readProfileInput(path, input.bytes, profileFileOf),
         }),
       ];
     }),

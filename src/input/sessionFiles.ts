@@ -17,8 +17,7 @@ import {
 import { dirname, isAbsolute, join, relative, resolve, sep } from 'node:path';
 import { type FileIdentity, identityFromStats } from '../cache/identity.js';
 import { type Diagnostic, escapeControls } from '../diagnostics.js';
-import { SESSION_LIMITS } from '../session/limits.js';
-import { profileFileOf } from '../session/profile/ref.js';
+import { SESSION_LIMITS } from '../session/limitValues.js';
 import type { ProfileInput } from '../session/profile/types.js';
 
 /** The session file names of a folder (links included: each is checked when read). */
@@ -157,8 +156,9 @@ export const MAX_PROFILE_BYTES = 16 * 1024 * 1024;
 export function readProfileInput(
   sessionPath: string,
   sessionBytes: Uint8Array,
+  /** Which profile the session names (session/profile/ref.ts profileFileOf, or a cache of it). */
+  refOf: (bytes: Uint8Array) => string | null,
   read?: { path: string; identity: FileIdentity }[],
-  refOf: (bytes: Uint8Array) => string | null = profileFileOf,
 ): ProfileInput | null {
   const name = refOf(sessionBytes);
   if (name === null) return null;

@@ -1,16 +1,14 @@
 /** The read edge for the catalog: the bundled data folder (or another) from disk. */
 import { readdirSync, readFileSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Outcome } from '../diagnostics.js';
+import { bundledDataDir } from './dataDir.js';
 import { type CatalogInput, parseCatalog } from './parse.js';
 import { PRECOMPILED_CATALOG_FILE, readPrecompiledCatalog } from './precompiled.js';
 import type { Catalog, CatalogFile } from './types.js';
 
-/** The package's own data/ folder, found from this module's location (src/ or dist/). */
-export function bundledDataDir(): string {
-  return resolve(dirname(fileURLToPath(import.meta.url)), '..', '..', 'data');
-}
+export { bundledDataDir };
 
 /** A project's own line list (config `catalogs:`), as absolute paths. */
 export interface ExtraCatalog {

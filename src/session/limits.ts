@@ -8,37 +8,9 @@
 import { type Alias, isAlias, isMap, isPair, isScalar, isSeq, type Node } from 'yaml';
 import type { Diagnostic, SourcePosition } from '../diagnostics.js';
 
-export interface SessionLimits {
-  /** Size of the file in bytes. */
-  maxBytes: number;
-  /** Alias uses (`*name`) in one file. */
-  maxAliasCount: number;
-  /** Values the document would hold once every alias is expanded. */
-  maxExpandedValues: number;
-  /** Levels of nested mappings and lists (the top-level mapping is level 1). */
-  maxDepth: number;
-  /** Entries under `lines:` (the schema's maxItems says the same; a test keeps them equal). */
-  maxLines: number;
-  /** Keys in one mapping (the largest mapping of the format has 15). */
-  maxKeys: number;
-}
+import { isReservedId, SESSION_LIMITS, type SessionLimits } from './limitValues.js';
 
-export const SESSION_LIMITS: SessionLimits = {
-  maxBytes: 2 * 1024 * 1024,
-  maxAliasCount: 50,
-  maxExpandedValues: 100_000,
-  maxDepth: 20,
-  maxLines: 5000,
-  maxKeys: 100,
-};
-
-/** Device names Windows reserves in every folder, whatever the case or extension. */
-const RESERVED_NAMES = /^(con|prn|aux|nul|com[0-9]|lpt[0-9])$/;
-
-/** True for an id that would make an unusable folder name on Windows (`sessions/con/`). */
-export function isReservedId(id: string): boolean {
-  return RESERVED_NAMES.test(id.toLowerCase());
-}
+export { isReservedId, SESSION_LIMITS, type SessionLimits };
 
 /**
  * Depth of `[` / `{` nesting at which the text is refused before parsing. The parser

@@ -14,14 +14,14 @@ const without = bytes('id: b\nlines: []\n');
 describe('ProfileRefMemo', () => {
   it('answers as profileFileOf does, and remembers across builds', () => {
     const dir = mkdtempSync(join(tmpdir(), 'll-refs-'));
-    const first = new ProfileRefMemo(dir);
+    const first = new ProfileRefMemo(dir, profileFileOf);
     expect(first.refOf(withProfile)).toBe(profileFileOf(withProfile));
     expect(first.refOf(without)).toBeNull();
     first.save();
     const stored = JSON.parse(readFileSync(join(dir, PROFILE_REFS_FILE), 'utf8'));
     expect(Object.values(stored).sort()).toEqual(['frame-1.csv', null]);
     // A second build sees the stored answers; a session no longer built is dropped.
-    const second = new ProfileRefMemo(dir);
+    const second = new ProfileRefMemo(dir, profileFileOf);
     expect(second.refOf(withProfile)).toBe('frame-1.csv');
     second.save();
     expect(Object.values(JSON.parse(readFileSync(join(dir, PROFILE_REFS_FILE), 'utf8')))).toEqual([
@@ -32,6 +32,6 @@ describe('ProfileRefMemo', () => {
   it('parses again when the stored answers are damaged', () => {
     const dir = mkdtempSync(join(tmpdir(), 'll-refs-'));
     writeFileSync(join(dir, PROFILE_REFS_FILE), '{"not a hash": 3, broken');
-    expect(new ProfileRefMemo(dir).refOf(withProfile)).toBe('frame-1.csv');
+    expect(new ProfileRefMemo(dir, profileFileOf).refOf(withProfile)).toBe('frame-1.csv');
   });
 });

@@ -7,6 +7,7 @@ import { vetSession } from '../../src/commands/vet.js';
 import { readProfileInput } from '../../src/input/sessionFiles.js';
 import { runSession } from '../../src/pipeline.js';
 import { buildResult } from '../../src/report/result.js';
+import { profileFileOf } from '../../src/session/profile/ref.js';
 import { sessionTemplate } from '../../src/session/scaffold.js';
 import { bundledCatalog } from '../helpers/catalog.js';
 import { expectedCounts, poissonProfile } from '../helpers/profile.js';
@@ -52,7 +53,7 @@ function run(profileText: string, session = sessionText()) {
   const path = join(dir, 'hg.yaml');
   writeFileSync(path, session);
   const bytes = new TextEncoder().encode(session);
-  const profile = readProfileInput(path, bytes);
+  const profile = readProfileInput(path, bytes, profileFileOf);
   return { path, bytes, profile, out: runSession(path, bytes, catalog, { profile }) };
 }
 

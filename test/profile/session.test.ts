@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { readProfileInput } from '../../src/input/sessionFiles.js';
+import { profileFileOf } from '../../src/session/profile/ref.js';
 import { readSessionText } from '../../src/session/read.js';
 import { fitsFile, primary } from './fitsWriter.js';
 
@@ -35,7 +36,7 @@ function read(dir: string, text: string) {
   const path = join(dir, 'sessions', 's.yaml');
   writeFileSync(path, text);
   const bytes = new TextEncoder().encode(text);
-  return readSessionText(bytes, path, { profile: readProfileInput(path, bytes) });
+  return readSessionText(bytes, path, { profile: readProfileInput(path, bytes, profileFileOf) });
 }
 
 describe('a session names its profile', () => {
