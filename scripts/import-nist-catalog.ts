@@ -51,6 +51,12 @@ interface Table {
    * intensity (Ritz-only lines never observed) fall below every threshold.
    */
   min_intensity: number;
+  /**
+   * Range kept (vacuum nm) when it differs from RANGE_NM: He I keeps its 1083 nm triplet, the
+   * strongest He I line beyond 1000 nm and the one solar prominences and the chromosphere are
+   * studied in (silicon cameras still reach it).
+   */
+  range_nm?: [number, number];
 }
 
 const TABLES: readonly Table[] = [
@@ -103,6 +109,7 @@ const TABLES: readonly Table[] = [
     retrieved: '2016-05-02',
     header_date: 'May 2, 2016',
     min_intensity: 2,
+    range_nm: [300, 1100],
   },
   {
     file: 'HgI_vacuum.txt',
@@ -223,7 +230,8 @@ function importTable(table: Table): Imported {
   });
   if (!outcome.ok)
     fail(`${t.file}: ${outcome.diagnostics.map((d) => `${d.line}:${d.col} ${d.message}`).join('; ')}`);
-  const inRange = outcome.value.rows.filter((r) => r.vacuum_nm >= RANGE_NM[0] && r.vacuum_nm <= RANGE_NM[1]);
+  const [from_nm, to_nm] = t.range_nm ?? RANGE_NM;
+  const inRange = outcome.value.rows.filter((r) => r.vacuum_nm >= from_nm && r.vacuum_nm <= to_nm);
   if (TOP !== null) {
     const sorted = inRange.map((r) => r.intensity).sort((a, b) => b - a);
     t = { ...t, min_intensity: Math.max(2, sorted[Math.min(TOP, sorted.length) - 1] ?? 2) };
@@ -345,7 +353,7 @@ const outputs: [string, string][] = [
 
 for (const i of imported)
   console.log(
-    `${i.table.species.padEnd(6)} Rel. Int. >= ${String(i.table.min_intensity).padEnd(6)} ${String(i.rows.length).padStart(4)} lines, faint ${String(i.faint.length).padStart(4)} (>= ${i.table.faint_min_intensity}) (of ${i.all_in_range} in ${RANGE_NM.join('–')} nm)  key ${sourceKey(i.table)}`,
+    `${i.table.species.padEnd(6)} Rel. Int. >= ${String(i.table.min_intensity).padEnd(6)} ${String(i.rows.length).padStart(4)} lines, faint ${String(i.faint.length).padStart(4)} (>= ${i.table.faint_min_intensity}) (of ${i.all_in_range} in ${(i.table.range_nm ?? RANGE_NM).join('–')} nm)  key ${sourceKey(i.table)}`,
   );
 for (const s of HYDROGENIC_SPECTRA)
   console.log(
