@@ -19,6 +19,7 @@ import { autoJobs, runPool } from './parallel/pool.js';
 import type { TaskMessage } from './parallel/protocol.js';
 import type { SessionUnit } from './parallel/unit.js';
 import type { SessionEvent } from './progress/reporter.js';
+import { markdownHtml, markdownKey } from './report/markdown.js';
 import {
   failedRow,
   type IndexRow,
@@ -383,7 +384,10 @@ export async function buildSite(
     }
     t2 = performance.now();
     // One page at a time: a large archive's index is many pages, none held longer than needed.
-    for (const file of indexFiles(rows, overview, ctx, options.indexPageSize)) staging.write([file]);
+    const introHtml = await markdownHtml(ctx.settings.introMarkdown, charts);
+    if (ctx.settings.introMarkdown.trim() !== '') usedCharts.add(markdownKey(ctx.settings.introMarkdown));
+    for (const file of indexFiles(rows, overview, ctx, introHtml, options.indexPageSize))
+      staging.write([file]);
     t3 = performance.now();
     swapped = staging.commit();
   } catch (e) {

@@ -7,6 +7,7 @@
 import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { SessionUnit } from '../parallel/unit.js';
+import { MARKDOWN_KEY_PREFIX } from '../report/markdown.js';
 import type { SessionPart, SiteFile } from '../report/site.js';
 import { contentHash, siteFileData } from '../write/manifest.js';
 import { writeAtomically } from './atomicWrite.js';
@@ -43,6 +44,11 @@ export function chartDirOf(cacheDir: string): string {
   return join(cacheDir, 'charts');
 }
 
+/** A fragment's file: a chart's SVG, or rendered Markdown (report/markdown.ts, `md-` keys). */
+function fragmentFile(key: string): string {
+  return key.startsWith(MARKDOWN_KEY_PREFIX) ? `${key}.html` : `${key}.svg`;
+}
+
 /** Charts held in memory at most (the most recently used): about 10 MB of SVG. */
 export const CHARTS_HELD = 400;
 
@@ -75,7 +81,7 @@ export class ChartStore extends Map<string, string> {
       return held;
     }
     if (this.dir === null) return undefined;
-    const svg = readOrUndefined(join(this.dir, `${hash}.svg`));
+    const svg = readOrUndefined(join(this.dir, fragmentFile(hash)));
     if (svg !== undefined) this.hold(hash, svg);
     return svg;
   }
@@ -83,7 +89,7 @@ export class ChartStore extends Map<string, string> {
     this.hold(hash, svg);
     if (this.dir !== null) {
       try {
-        writeAtomically(join(this.dir, `${hash}.svg`), svg);
+        writeAtomically(join(this.dir, fragmentFile(hash)), svg);
       } catch {
         // A cache that cannot be written only costs time on the next build.
       }
@@ -176,7 +182,7 @@ export class SessionStore {
   prune(keys: ReadonlySet<string>, charts: ReadonlySet<string>): void {
     const sweep = (dir: string, keep: (stem: string) => boolean) => {
       for (const name of readdirSync(dir)) {
-        const stem = name.replace(/(\.files)?\.(json|svg)$/, '');
+        const stem = name.replace(/(\.files)?\.(json|svg|html)$/, '');
         if (name.endsWith('.tmp') || !keep(stem)) rmSync(join(dir, name), { force: true });
       }
     };

@@ -10,7 +10,7 @@ import { profileChart } from './charts/profile.js';
 import { type ChartCache, renderChart } from './charts/render.js';
 import { calibrationChart, residualChart, scanChart, scoreChart, spectrumChart } from './charts/specs.js';
 import { display, fixed, percent, probability, speciesLabel } from './format.js';
-import { renderNotes } from './notes.js';
+import { markdownHtml } from './markdown.js';
 import { profileCopyName } from './profileCopy.js';
 import type { ResultJson } from './result.js';
 import {
@@ -397,7 +397,7 @@ export async function sessionPageModel(
     candidatesOthers: othersTried,
     evidenceScale: EVIDENCE_SCALE,
     confidence: idn.explanation.species.length ? percent(idn.explanation.confidence) : null,
-    notesHtml: renderNotes(session.notes),
+    notesHtml: await markdownHtml(session.notes, cache),
     program: { version: input.programVersion },
     catalog: { version: catalog.version, sha256: catalog.sha256 },
     inputFile: result.input.file,

@@ -10,7 +10,7 @@ import type { ChartCache } from './charts/render.js';
 import { PAGE_CSP } from './csp.js';
 import { linesCsv } from './csv.js';
 import { display, percent } from './format.js';
-import { renderNotes } from './notes.js';
+import { markdownHtml } from './markdown.js';
 import { profileCopyName } from './profileCopy.js';
 import { buildResult } from './result.js';
 import { sessionPageModel } from './sessionPage.js';
@@ -258,6 +258,8 @@ export function* indexFiles(
   rowsIn: readonly IndexRow[],
   overview: readonly OverviewEntry[],
   ctx: RenderContext,
+  /** The introduction as HTML (markdown.ts markdownHtml of ctx.settings.introMarkdown). */
+  introHtml: string,
   perPage: number = SESSIONS_PER_PAGE,
 ): Generator<SiteFile> {
   const { templates } = ctx;
@@ -280,7 +282,7 @@ export function* indexFiles(
       .map((species) => ({ species, swatch: swatchSvg(colours.get(species) ?? null) })),
     unexplainedSwatch: r.lines.some((l) => l.species === null) ? swatchSvg(null) : null,
   });
-  const site = { ...ctx.settings, introHtml: renderNotes(ctx.settings.introMarkdown) };
+  const site = { ...ctx.settings, introHtml };
   const page = (path: string, pageTitle: string, model: Record<string, unknown>): SiteFile => ({
     path,
     contents: templates.layout({
@@ -353,11 +355,12 @@ export async function renderIndexFiles(
   rowsIn: readonly IndexRow[],
   overview: readonly OverviewEntry[],
   ctx: RenderContext,
-  // Kept for callers: the index draws no chart of its own any more (its strips are plain SVG).
-  _cache: ChartCache = new Map(),
+  // The introduction's rendered Markdown is kept here (the index draws no chart of its own).
+  cache: ChartCache = new Map(),
   perPage: number = SESSIONS_PER_PAGE,
 ): Promise<SiteFile[]> {
-  return [...indexFiles(rowsIn, overview, ctx, perPage)];
+  const introHtml = await markdownHtml(ctx.settings.introMarkdown, cache);
+  return [...indexFiles(rowsIn, overview, ctx, introHtml, perPage)];
 }
 
 export function sortFiles(files: SiteFile[]): SiteFile[] {

@@ -1,9 +1,18 @@
 /** The cache: a rebuild from it equals a clean build byte for byte and recomputes only what changed. */
-import { appendFileSync, existsSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import {
+  appendFileSync,
+  existsSync,
+  readdirSync,
+  readFileSync,
+  rmSync,
+  statSync,
+  writeFileSync,
+} from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { buildSite } from '../../src/build.js';
 import { loadCatalog } from '../../src/lines/load.js';
+import { markdownKey } from '../../src/report/markdown.js';
 import { archive, fingerprints, optionsFor, snapshot, tempDir } from './helpers.js';
 
 const loaded = loadCatalog();
@@ -104,5 +113,27 @@ describe('incremental build', () => {
       catalog,
     );
     expect(again).toMatchObject({ cached: 6, computed: 3 });
+  });
+
+  it('keeps rendered Markdown in the cache and uses it while the text is the same', async () => {
+    const small = archive(3);
+    const where = tempDir('ll-md-');
+    const mdCache = join(where, 'cache');
+    const site = join(where, 'site');
+    const options = optionsFor(small.dir, site, { cacheDir: mdCache, jobs: 1 });
+    await buildSite(options, catalog);
+    const fragments = join(mdCache, 'charts');
+    const introFile = `${markdownKey(options.settings.introMarkdown)}.html`;
+    // The introduction and the sessions' notes, each once.
+    const md = readdirSync(fragments).filter((n) => n.startsWith('md-') && n.endsWith('.html'));
+    expect(md).toContain(introFile);
+    expect(md.length).toBeGreaterThan(1);
+    // A stored fragment stands for its text (the cache is emptied when the program changes):
+    // marked, it is what the next build puts on the page, and it survives the cache's pruning.
+    writeFileSync(join(fragments, introFile), '<p>from the cache</p>');
+    appendFileSync(small.files[0] as string, '# touched\n');
+    await buildSite(options, catalog);
+    expect(readFileSync(join(site, 'index.html'), 'utf8')).toContain('<p>from the cache</p>');
+    expect(readdirSync(fragments)).toEqual(expect.arrayContaining(md));
   });
 });

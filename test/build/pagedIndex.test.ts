@@ -118,7 +118,7 @@ describe('paged index of a large archive', () => {
       // A forbidden species is shown in brackets, as everywhere else.
       if (i % 5 === 0) overview.push({ session: id, species: 'Y II', display: '[Y II]' });
     }
-    const files = [...indexFiles(rows, overview, ctx)];
+    const files = [...indexFiles(rows, overview, ctx, '')];
     expect(files.map((f) => f.path)).toEqual([
       'style.css',
       'index.html',
