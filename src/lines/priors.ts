@@ -61,6 +61,36 @@ export function parsePriors(
     }
     return out;
   };
+  /**
+   * A map `{ <valueKey>: number, reason, source }` under `key` whose number passes `ok`; null
+   * when absent, and reported at its place when malformed.
+   */
+  const reasoned = (
+    map: YAMLMap,
+    key: string,
+    valueKey: string,
+    ok: (value: number) => boolean,
+    field: string,
+    expected: string,
+  ): { value: number; reason: string; source: string } | null => {
+    const node = map.get(key, true);
+    if (node === undefined) return null;
+    const get = (k: string): unknown => (isMap(node) ? node.get(k) : undefined);
+    const value = get(valueKey);
+    const reason = get('reason');
+    const source = get('source');
+    if (
+      typeof value === 'number' &&
+      ok(value) &&
+      typeof reason === 'string' &&
+      reason.trim() &&
+      typeof source === 'string' &&
+      source.trim()
+    )
+      return { value, reason, source };
+    fail(node, `${field}.${key}`, expected);
+    return null;
+  };
   const parseSet = (node: unknown, field: string): SourcePriorSet => {
     const set: SourcePriorSet = {
       lines_listed: null,
@@ -108,45 +138,24 @@ export function parsePriors(
           `intensities must be one of ${[...INTENSITIES].join(', ')}`,
         );
     }
-    const scatter = map.get('line_scatter', true);
-    if (scatter !== undefined) {
-      const km_s = isMap(scatter) ? scatter.get('km_s') : undefined;
-      const reason = isMap(scatter) ? scatter.get('reason') : undefined;
-      const source = isMap(scatter) ? scatter.get('source') : undefined;
-      if (
-        typeof km_s === 'number' &&
-        km_s >= 0 &&
-        km_s <= MAX_LINE_SCATTER_KM_S &&
-        typeof reason === 'string' &&
-        reason.trim() &&
-        typeof source === 'string' &&
-        source.trim()
-      )
-        set.line_scatter = { km_s, reason, source };
-      else
-        fail(
-          scatter,
-          `${field}.line_scatter`,
-          `line_scatter is a map of km_s (0 to ${MAX_LINE_SCATTER_KM_S}), reason and source`,
-        );
-    }
-    const others = map.get('others', true);
-    if (others !== undefined) {
-      const p = isMap(others) ? others.get('p') : undefined;
-      const reason = isMap(others) ? others.get('reason') : undefined;
-      const source = isMap(others) ? others.get('source') : undefined;
-      if (
-        typeof p === 'number' &&
-        p > 0 &&
-        p < 1 &&
-        typeof reason === 'string' &&
-        reason.trim() &&
-        typeof source === 'string' &&
-        source.trim()
-      )
-        set.others = { p, reason, source };
-      else fail(others, `${field}.others`, 'others is a map of p (between 0 and 1), reason and source');
-    }
+    const scatter = reasoned(
+      map,
+      'line_scatter',
+      'km_s',
+      (v) => v >= 0 && v <= MAX_LINE_SCATTER_KM_S,
+      field,
+      `line_scatter is a map of km_s (0 to ${MAX_LINE_SCATTER_KM_S}), reason and source`,
+    );
+    if (scatter) set.line_scatter = { km_s: scatter.value, reason: scatter.reason, source: scatter.source };
+    const others = reasoned(
+      map,
+      'others',
+      'p',
+      (v) => v > 0 && v < 1,
+      field,
+      'others is a map of p (between 0 and 1), reason and source',
+    );
+    if (others) set.others = { p: others.value, reason: others.reason, source: others.source };
     const list = map.get('priors', true);
     if (list === undefined) return set;
     if (!isSeq(list)) {
