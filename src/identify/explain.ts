@@ -73,29 +73,7 @@ export function scoreSet(
     fwhm_nm: ctx.fwhm_nm,
     background_per_nm: ctx.background_per_nm,
   };
-  let { matches, gain } = bestMatching(input);
-  // A species the source makes more likely present than not (prior odds above 1) that loses
-  // every line to a closer line of another species is still weighed on its best line: the set
-  // "A and B" then means B's likeliest line is B's, at the fit it has, not B explaining nothing.
-  // (Hard assignment alone gives a line to the closer reference however weak that line is, so
-  // the source's expected species could never be weighed on its own evidence.)
-  const forced: ForcedPair[] = [];
-  for (const s of set) {
-    if (penaltyOf(s) >= 0 || matches.some((m) => m.ref.species === s)) continue;
-    let best: { matches: Match[]; gain: number; pair: ForcedPair } | null = null;
-    for (let k = 0; k < picked.length; k++) {
-      if ((picked[k] as { ref: RefLine }).ref.species !== s) continue;
-      for (let i = 0; i < ctx.points.length; i++) {
-        const pair = { line: i, ref: k };
-        const trial = matchingWith(input, [...forced, pair]);
-        if (trial && (best === null || trial.gain > best.gain)) best = { ...trial, pair };
-      }
-    }
-    if (best) {
-      forced.push(best.pair);
-      ({ matches, gain } = best);
-    }
-  }
+  const { matches, gain } = holdFavoured(set, bestMatching(input), input, picked, penaltyOf);
   missCost -= hiddenMissCost(picked, matches, ctx);
   let ranks = 0;
   for (const s of set)
@@ -107,6 +85,41 @@ export function scoreSet(
   let penalty = 0;
   for (const sp of set) penalty += penaltyOf(sp);
   return { species: [...set].sort(), total: missCost + gain + ranks - penalty, matches };
+}
+
+/**
+ * A species the source makes more likely present than not (prior odds above 1) that loses
+ * every line to a closer line of another species is still weighed on its best line: the set
+ * "A and B" then means B's likeliest line is B's, at the fit it has, not B explaining nothing.
+ * (Hard assignment alone gives a line to the closer reference however weak that line is, so
+ * the source's expected species could never be weighed on its own evidence.)
+ */
+function holdFavoured(
+  set: readonly string[],
+  matching: { matches: Match[]; gain: number },
+  input: MatchInput,
+  picked: readonly { ref: RefLine }[],
+  penaltyOf: (species: string) => number,
+): { matches: Match[]; gain: number } {
+  let current = matching;
+  const forced: ForcedPair[] = [];
+  for (const s of set) {
+    if (penaltyOf(s) >= 0 || current.matches.some((m) => m.ref.species === s)) continue;
+    let best: { matches: Match[]; gain: number; pair: ForcedPair } | null = null;
+    for (let k = 0; k < picked.length; k++) {
+      if ((picked[k] as { ref: RefLine }).ref.species !== s) continue;
+      for (let i = 0; i < input.lines.length; i++) {
+        const pair = { line: i, ref: k };
+        const trial = matchingWith(input, [...forced, pair]);
+        if (trial && (best === null || trial.gain > best.gain)) best = { ...trial, pair };
+      }
+    }
+    if (best) {
+      forced.push(best.pair);
+      current = best;
+    }
+  }
+  return current;
 }
 
 /**
