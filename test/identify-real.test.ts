@@ -115,19 +115,27 @@ describe('real observations', () => {
     expect(r.explanation.confidence).toBeLessThan(0.9);
   });
 
-  it('a telluric absorption band never explains an emission line (Fraunhofer A and B, O2 759.370 and 686.719 nm)', () => {
-    // The A and B heads as the catalog reads them (Wikipedia, 'Fraunhofer lines', the source of
-    // the telluric O2 rows). Seen as dark lines in daylight they are O2; as bright lines they are not.
-    const session = (kind: string) =>
-      `lineledger: 1\nsource: { kind: sky }\ninstrument: { resolution_nm: 0.5 }\nmeasurement: { sigma: 0.1 }\nlines:\n  - { wavelength: 686.72, kind: ${kind} }\n  - { wavelength: 759.37, kind: ${kind} }\n`;
-    const dark = result(session('absorption'));
-    expect(dark.lines.every((l) => l.assignment?.species === 'O2')).toBe(true);
-    const bright = result(session('emission'));
+  it('a telluric absorption band never explains an emission line, nor an airglow emission band a dark one', () => {
+    // The B and A heads as the catalog reads them (Wikipedia, 'Fraunhofer lines': O2 686.719 and
+    // 759.370 nm air), and the O2 atmospheric (0,1) band of the night airglow at 8650 Å (Swenson
+    // & Mende 1994, Proc. SPIE 2266). Dark lines at the heads are O2; bright ones are not the heads.
+    const session = (kind: string, ws: number[]) =>
+      `lineledger: 1\nsource: { kind: sky }\ninstrument: { resolution_nm: 0.5 }\nmeasurement: { sigma: 0.1 }\nlines:\n${ws.map((w) => `  - { wavelength: ${w}, kind: ${kind} }`).join('\n')}\n`;
+    const heads = [686.908, 759.579]; // their vacuum wavelengths in the catalog
+    const dark = result(session('absorption', [686.72, 759.37]));
+    expect(dark.lines.map((l) => l.assignment?.species)).toEqual(['O2', 'O2']);
+    const bright = result(session('emission', [686.72, 759.37]));
     // Neither assigned (identified or tentative) nor offered as an alternative.
-    const o2 = bright.lines.filter(
-      (l) => l.assignment?.species === 'O2' || l.alternatives.some((a) => a.species === 'O2'),
+    const onHead = (nm: number | undefined) => nm !== undefined && heads.some((h) => Math.abs(h - nm) < 0.01);
+    const atHeads = bright.lines.filter(
+      (l) => onHead(l.assignment?.ref_vacuum_nm) || l.alternatives.some((a) => onHead(a.ref_vacuum_nm)),
     );
-    expect(o2).toEqual([]);
+    expect(atHeads).toEqual([]);
+    // The airglow band is an emission feature: bright at 865 nm it is O2, dark it is not.
+    const glow = result(session('emission', [865.0, 557.7]));
+    expect(glow.lines[0]?.assignment?.species).toBe('O2');
+    const darkGlow = result(session('absorption', [865.0]));
+    expect(darkGlow.lines[0]?.assignment?.species).not.toBe('O2');
   });
 
   it('confirms the species every rival explanation holds, while the rest stays in doubt', () => {

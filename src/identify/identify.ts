@@ -248,8 +248,11 @@ function weighAtRest(reduction: Reduction, catalog: Catalog) {
   };
 
   // A band seen only in absorption (the telluric O2 and H2O bands, flag `absorption-only`)
-  // cannot be an emission line: in a session of emission lines its rows take no part.
+  // cannot be an emission line, nor an airglow emission band (`emission-only`) a dark line: in
+  // a session of lines of one kind, the rows of the other take no part.
   const emissionOnly = sorted.every((l) => l.kind === 'emission');
+  const absorptionOnly = sorted.every((l) => l.kind === 'absorption');
+  const otherKind = emissionOnly ? 'absorption-only' : absorptionOnly ? 'emission-only' : null;
   const prepared = new Map<string, PreparedSpecies>();
   const evidence: SpeciesEvidence[] = [];
   for (const name of pool) {
@@ -266,7 +269,7 @@ function weighAtRest(reduction: Reduction, catalog: Catalog) {
       points: Float64Array.from(points, (p) => p.vacuum_nm / scale),
       halfWidth_nm: (WINDOW_SIGMAS * pairSigma(medianSigma, 0, fwhm)) / scale,
     })
-      .filter((r) => !(emissionOnly && r.flags.includes('absorption-only')))
+      .filter((r) => otherKind === null || !r.flags.includes(otherKind))
       .map((r) => (scale === 1 ? r : { ...r, vacuum_nm: r.vacuum_nm * scale }));
     if (refs.length === 0) continue;
     const result = evaluateSpecies(name, refs, own, telluric);
