@@ -8,6 +8,7 @@ import { readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { programFingerprint } from './cache/fingerprint.js';
+import { type IndexPageRecords, pageKey, readIndexPages, writeIndexPages } from './cache/indexPages.js';
 import { contextKey, sessionKey } from './cache/key.js';
 import { ProfileRefMemo } from './cache/profileRefs.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
@@ -23,17 +24,18 @@ import { markdownHtml, markdownKey } from './report/markdown.js';
 import {
   failedRow,
   type IndexRow,
-  indexFiles,
+  indexPlan,
   type OverviewEntry,
+  type PlannedFile,
   type RenderContext,
   type SiteSettings,
 } from './report/site.js';
-import { compileTemplates, type Templates, type TemplateTexts } from './report/templates.js';
+import { compileTemplates, type Templates, type TemplateTexts, templatesKey } from './report/templates.js';
 import { profileFileOf } from './session/profile/ref.js';
 import type { InstrumentSpec } from './session/types.js';
 import { checkBuildTargets } from './write/guard.js';
-import { hashesOf, readManifest, verifiedEntries, writeManifest } from './write/manifest.js';
-import { openStaging } from './write/writeSite.js';
+import { contentHash, hashesOf, readManifest, verifiedEntries, writeManifest } from './write/manifest.js';
+import { openStaging, type Staging } from './write/writeSite.js';
 
 export interface BuildOptions {
   inputDir: string;
@@ -90,6 +92,8 @@ export interface BuildReport {
   jobs: number;
   /** The site already was the build's output, so it was left as it was (no swap). */
   unchanged: boolean;
+  /** Archive-wide files rendered (the rest were kept: a large archive's unchanged pages). */
+  indexPagesRendered: number;
   /** Where the build's time went (ms): what `--verbose` prints and the bench reads. */
   timings: BuildTimings;
 }
@@ -183,6 +187,38 @@ export function readSourceDateEpoch(epoch: string | undefined): {
 
 export function builtOnFromEpoch(epoch: string | undefined): string | null {
   return readSourceDateEpoch(epoch).builtOn;
+}
+
+/**
+ * Writes the archive-wide files one at a time. With a cache, a page whose key (its content's
+ * digest and the templates) is the last build's and whose file the manifest vouches for is
+ * kept as it is (staging.writeKnown renders it only if the live file cannot be kept). Returns
+ * how many files were rendered; `records` receives each keyed page's key and file hash.
+ */
+function writeIndex(
+  plan: Iterable<PlannedFile>,
+  staging: Staging,
+  cache: { templates: string; before: IndexPageRecords } | null,
+  records: IndexPageRecords,
+): number {
+  let rendered = 0;
+  const render = (file: PlannedFile) => {
+    rendered++;
+    return file.render();
+  };
+  for (const file of plan) {
+    const key = cache && file.key !== null ? pageKey(cache.templates, file.key) : null;
+    const before = key === null ? undefined : cache?.before.get(file.path);
+    if (key !== null && before?.key === key) {
+      staging.writeKnown([{ path: file.path, sha256: before.sha256 }], () => [render(file)]);
+      records.set(file.path, before);
+      continue;
+    }
+    const made = render(file);
+    staging.write([made]);
+    if (key !== null) records.set(file.path, { key, sha256: contentHash(made.contents) });
+  }
+  return rendered;
 }
 
 export async function buildSite(
@@ -342,6 +378,8 @@ export async function buildSite(
   const jobs = options.jobs === undefined || options.jobs === 'auto' ? autoJobs(todo.length) : options.jobs;
 
   let swapped = false;
+  let indexPagesRendered = 0;
+  const pageRecords: IndexPageRecords = new Map();
   const t1 = performance.now();
   let t2 = t1;
   let t3 = t1;
@@ -386,8 +424,12 @@ export async function buildSite(
     // One page at a time: a large archive's index is many pages, none held longer than needed.
     const introHtml = await markdownHtml(ctx.settings.introMarkdown, charts);
     if (ctx.settings.introMarkdown.trim() !== '') usedCharts.add(markdownKey(ctx.settings.introMarkdown));
-    for (const file of indexFiles(rows, overview, ctx, introHtml, options.indexPageSize))
-      staging.write([file]);
+    indexPagesRendered = writeIndex(
+      indexPlan(rows, overview, ctx, introHtml, options.indexPageSize),
+      staging,
+      store ? { templates: templatesKey(templateTexts), before: readIndexPages(store.dir) } : null,
+      pageRecords,
+    );
     t3 = performance.now();
     swapped = staging.commit();
   } catch (e) {
@@ -399,6 +441,7 @@ export async function buildSite(
     writeManifest(manifestPath, options.outDir, staging.hashes, untouched);
   }
   store?.prune(new Set(keys), usedCharts);
+  if (store) writeIndexPages(store.dir, pageRecords);
   refs?.save();
   if (store && options.stamp && stampable)
     writeStamp(store.dir, options.outDir, {
@@ -415,6 +458,7 @@ export async function buildSite(
     computed: computedCount,
     jobs: computedCount === 0 ? 0 : jobs,
     unchanged: !swapped,
+    indexPagesRendered,
     timings: {
       prepare_ms: t1 - t0,
       sessions_ms: t2 - t1,

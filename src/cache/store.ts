@@ -11,6 +11,7 @@ import { MARKDOWN_KEY_PREFIX } from '../report/markdown.js';
 import type { SessionPart, SiteFile } from '../report/site.js';
 import { contentHash, siteFileData } from '../write/manifest.js';
 import { writeAtomically } from './atomicWrite.js';
+import { INDEX_PAGES_FILE } from './indexPages.js';
 import { PROFILE_REFS_FILE } from './profileRefs.js';
 import { STAMP_FILE } from './upToDate.js';
 
@@ -124,6 +125,7 @@ export class SessionStore {
         join(dir, 'site-manifest.json'),
         join(dir, STAMP_FILE),
         join(dir, PROFILE_REFS_FILE),
+        join(dir, INDEX_PAGES_FILE),
         stamp,
       ])
         rmSync(own, { recursive: true, force: true });

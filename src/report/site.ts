@@ -2,6 +2,7 @@
  * The render stage: processed sessions → the site's files (paths relative to the output
  * folder, contents as strings). Pure apart from chart rendering, which is deterministic.
  */
+import { createHash } from 'node:crypto';
 import type { Diagnostic } from '../diagnostics.js';
 import type { Catalog } from '../lines/types.js';
 import type { SessionOutcome } from '../pipeline.js';
@@ -262,6 +263,29 @@ export function* indexFiles(
   introHtml: string,
   perPage: number = SESSIONS_PER_PAGE,
 ): Generator<SiteFile> {
+  for (const file of indexPlan(rowsIn, overview, ctx, introHtml, perPage)) yield file.render();
+}
+
+/** One archive-wide file, rendered on demand. */
+export interface PlannedFile {
+  path: string;
+  /**
+   * A digest of everything the file is made of but the templates, for a build's cache (a page
+   * whose key is the last build's need not be rendered again); null where rendering costs less
+   * than keying (the stylesheet, the home page over the whole archive).
+   */
+  key: string | null;
+  render: () => SiteFile;
+}
+
+/** indexFiles, each file with its key and rendered only when asked (a large archive's pages). */
+export function* indexPlan(
+  rowsIn: readonly IndexRow[],
+  overview: readonly OverviewEntry[],
+  ctx: RenderContext,
+  introHtml: string,
+  perPage: number = SESSIONS_PER_PAGE,
+): Generator<PlannedFile> {
   const { templates } = ctx;
   const common = commonOf(ctx);
   // In time order, oldest first, as a club's log reads; undated last; ties by title so the
@@ -299,15 +323,21 @@ export function* indexFiles(
       }),
     }),
   });
-  yield { path: 'style.css', contents: templates.css };
+  const now = (file: () => SiteFile): PlannedFile => {
+    const made = file();
+    return { path: made.path, key: null, render: () => made };
+  };
+  yield now(() => ({ path: 'style.css', contents: templates.css }));
   if (rows.length <= perPage) {
-    yield page('index.html', ctx.settings.title, {
-      single: true,
-      sessions: rows.map(shown),
-      counts: counted(rows),
-      overview: overview.length > 0,
-      bySpecies: sessionsBySpecies(rows, overview),
-    });
+    yield now(() =>
+      page('index.html', ctx.settings.title, {
+        single: true,
+        sessions: rows.map(shown),
+        counts: counted(rows),
+        overview: overview.length > 0,
+        bySpecies: sessionsBySpecies(rows, overview),
+      }),
+    );
     return;
   }
   const pageCount = Math.ceil(rows.length / perPage);
@@ -320,33 +350,56 @@ export function* indexFiles(
     span: dateSpan(slice),
     counts: counted(slice),
   }));
-  yield page('index.html', ctx.settings.title, {
-    home: true,
-    counts: counted(rows),
-    perPage,
-    pages: pageLinks,
-    overview: overview.length > 0,
-    speciesSummary: speciesSummary(rows, overview),
+  yield now(() =>
+    page('index.html', ctx.settings.title, {
+      home: true,
+      counts: counted(rows),
+      perPage,
+      pages: pageLinks,
+      overview: overview.length > 0,
+      speciesSummary: speciesSummary(rows, overview),
+    }),
+  );
+  // What every page shares, for the pages' keys (the catalog by version and digest).
+  const shared = JSON.stringify({
+    program: ctx.programVersion,
+    catalog: [ctx.catalog.version, ctx.catalog.sha256],
+    site,
+    builtOn: ctx.builtOn,
+    csp: PAGE_CSP,
+    of: rows.length,
+    pageCount,
   });
-  const pageIds = new Set<string>();
   for (const [i, slice] of slices.entries()) {
     const link = pageLinks[i] as (typeof pageLinks)[number];
-    pageIds.clear();
+    const pageIds = new Set<string>();
     for (const r of slice) if (r.id !== null) pageIds.add(r.id);
     const here = overview.filter((o) => pageIds.has(o.session));
-    yield page(link.href, `Sessions ${link.first}–${link.last} — ${ctx.settings.title}`, {
-      paged: true,
-      sessions: slice.map(shown),
-      counts: link.counts,
-      page: link,
-      pageCaption: `Sessions ${link.first}–${link.last} of the archive`,
-      of: rows.length,
-      pageCount,
-      previous: i > 0 ? indexPagePath(i) : null,
-      next: i + 1 < pageCount ? indexPagePath(i + 2) : null,
-      overview: here.length > 0,
-      bySpecies: sessionsBySpecies(slice, here),
-    });
+    const title = `Sessions ${link.first}–${link.last} — ${ctx.settings.title}`;
+    // A page is its rows, their species' colours, its own overview entries and its place.
+    const species = [...new Set(slice.flatMap((r) => r.lines.map((l) => l.species)))].sort();
+    const key = createHash('sha256')
+      .update(shared)
+      .update(JSON.stringify([link, title, slice, here, species.map((sp) => [sp, colours.get(sp ?? '')])]))
+      .digest('hex');
+    yield {
+      path: link.href,
+      key,
+      render: () =>
+        page(link.href, title, {
+          paged: true,
+          sessions: slice.map(shown),
+          counts: link.counts,
+          page: link,
+          pageCaption: `Sessions ${link.first}–${link.last} of the archive`,
+          of: rows.length,
+          pageCount,
+          previous: i > 0 ? indexPagePath(i) : null,
+          next: i + 1 < pageCount ? indexPagePath(i + 2) : null,
+          overview: here.length > 0,
+          bySpecies: sessionsBySpecies(slice, here),
+        }),
+    };
   }
 }
 

@@ -201,7 +201,7 @@ function looksLikeOurSite(dir: string, manifestFiles: ReadonlySet<string> | null
 }
 
 const CACHE_ENTRY =
-  /^(sessions|charts|fingerprint|site-manifest\.json|up-to-date\.json|profile-refs\.json|.*\.tmp)$/;
+  /^(sessions|charts|fingerprint|site-manifest\.json|up-to-date\.json|profile-refs\.json|index-pages\.json|.*\.tmp)$/;
 
 function looksLikeOurCache(entries: readonly string[]): boolean {
   return entries.includes('fingerprint') && entries.every((e) => CACHE_ENTRY.test(e));

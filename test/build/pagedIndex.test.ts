@@ -3,7 +3,7 @@
  * exactly once, an index of those pages, and an overview computed from the sessions' small
  * summaries (index rows and overview entries), never from their results.
  */
-import { readdirSync, readFileSync } from 'node:fs';
+import { appendFileSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { buildSite, loadTemplates } from '../../src/build.js';
@@ -16,7 +16,7 @@ import {
   type RenderContext,
   SESSIONS_PER_PAGE,
 } from '../../src/report/site.js';
-import { archive, optionsFor, tempDir } from './helpers.js';
+import { archive, optionsFor, snapshot, tempDir } from './helpers.js';
 
 const loaded = loadCatalog();
 if (!loaded.ok) throw new Error('the bundled catalog does not load');
@@ -83,6 +83,35 @@ describe('paged index of a large archive', () => {
     );
     expect(fromIndex.size).toBeGreaterThan(0);
     expect(fromIndex).toEqual(fromResults);
+  });
+
+  it('renders again only the pages whose sessions changed, and gives what a clean build gives', async () => {
+    const small = archive(25);
+    const root = tempDir('ll-pages-');
+    const site = join(root, 'site');
+    const cacheDir = join(root, 'cache');
+    const options = optionsFor(small.dir, site, { cacheDir, jobs: 1, indexPageSize: 5 });
+    const first = await buildSite(options, catalog);
+    // style.css, index.html and five pages of five sessions.
+    expect(first.indexPagesRendered).toBe(7);
+    // A comment changes the session's bytes (it is computed again) but not its row: no page changes.
+    appendFileSync(small.files[12] as string, '# touched\n');
+    expect((await buildSite(options, catalog)).indexPagesRendered).toBe(2);
+    // A new title changes its row, and so its page.
+    const touched = small.files[12] as string;
+    writeFileSync(touched, readFileSync(touched, 'utf8').replace(/^title: (.*)$/m, 'title: $1, retitled'));
+    const second = await buildSite(options, catalog);
+    // The stylesheet and the home page are always rendered; of the pages only the touched one.
+    expect(second.indexPagesRendered).toBe(3);
+    const clean = join(root, 'clean');
+    await buildSite(optionsFor(small.dir, clean, { cacheDir: null, jobs: 1, indexPageSize: 5 }), catalog);
+    expect(snapshot(site)).toEqual(snapshot(clean));
+    // A page edited by hand is not vouched for: it is rendered and written afresh.
+    const page = join(site, indexPagePath(1));
+    writeFileSync(page, 'edited');
+    const third = await buildSite(options, catalog);
+    expect(third.indexPagesRendered).toBe(3);
+    expect(readFileSync(page, 'utf8')).toBe(readFileSync(join(clean, indexPagePath(1)), 'utf8'));
   });
 
   it('computes the overview from the summaries alone (no session or result exists)', () => {
