@@ -8,7 +8,13 @@ import { readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { programFingerprint } from './cache/fingerprint.js';
-import { type IndexPageRecords, pageKey, readIndexPages, writeIndexPages } from './cache/indexPages.js';
+import {
+  type IndexPageRecords,
+  pageKey,
+  readIndexPages,
+  samePages,
+  writeIndexPages,
+} from './cache/indexPages.js';
 import { contextKey, sessionKey } from './cache/key.js';
 import { ProfileRefMemo } from './cache/profileRefs.js';
 import { ChartStore, defaultCacheDir, SessionStore, type UnitHead } from './cache/store.js';
@@ -380,6 +386,7 @@ export async function buildSite(
   let swapped = false;
   let indexPagesRendered = 0;
   const pageRecords: IndexPageRecords = new Map();
+  const pagesBefore = store ? readIndexPages(store.dir) : null;
   const t1 = performance.now();
   let t2 = t1;
   let t3 = t1;
@@ -427,7 +434,7 @@ export async function buildSite(
     indexPagesRendered = writeIndex(
       indexPlan(rows, overview, ctx, introHtml, options.indexPageSize),
       staging,
-      store ? { templates: templatesKey(templateTexts), before: readIndexPages(store.dir) } : null,
+      pagesBefore && { templates: templatesKey(templateTexts), before: pagesBefore },
       pageRecords,
     );
     t3 = performance.now();
@@ -441,7 +448,7 @@ export async function buildSite(
     writeManifest(manifestPath, options.outDir, staging.hashes, untouched);
   }
   store?.prune(new Set(keys), usedCharts);
-  if (store) writeIndexPages(store.dir, pageRecords);
+  if (store && pagesBefore && !samePages(pagesBefore, pageRecords)) writeIndexPages(store.dir, pageRecords);
   refs?.save();
   if (store && options.stamp && stampable)
     writeStamp(store.dir, options.outDir, {

@@ -33,6 +33,16 @@ export function writeIndexPages(cacheDir: string, records: IndexPageRecords): vo
   writeAtomically(join(cacheDir, INDEX_PAGES_FILE), JSON.stringify(Object.fromEntries(records)));
 }
 
+/** Whether two records hold the same pages (the file is written only when they differ). */
+export function samePages(a: IndexPageRecords, b: IndexPageRecords): boolean {
+  if (a.size !== b.size) return false;
+  for (const [path, r] of a) {
+    const o = b.get(path);
+    if (!o || o.key !== r.key || o.sha256 !== r.sha256) return false;
+  }
+  return true;
+}
+
 /** A page's key with the templates it is rendered by. */
 export function pageKey(templatesKey: string, contentKey: string): string {
   return createHash('sha256').update(templatesKey).update(contentKey).digest('hex');

@@ -134,9 +134,12 @@ function hiddenMissCost(
   ctx: EvidenceContext,
 ): number {
   if (matches.length === 0) return 0;
-  // By reference position (an optimal matching never crosses, so this is usually its order;
-  // a matching with a forced pair may cross).
-  const byRef = [...matches].sort((a, b) => a.ref.vacuum_nm - b.ref.vacuum_nm);
+  // By reference position: an optimal matching never crosses, so this is its own order (no copy
+  // on this hot path); only a matching with a forced pair (holdFavoured) may cross.
+  const ascending = matches.every(
+    (m, k) => k === 0 || (matches[k - 1] as Match).ref.vacuum_nm <= m.ref.vacuum_nm,
+  );
+  const byRef = ascending ? matches : [...matches].sort((a, b) => a.ref.vacuum_nm - b.ref.vacuum_nm);
   const at = Float64Array.from(byRef, (m) => m.ref.vacuum_nm);
   const used = new Set(matches.map((m) => m.ref));
   let cost = 0;

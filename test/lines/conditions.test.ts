@@ -38,6 +38,13 @@ function errorsOf(conditions: string) {
   return r.diagnostics;
 }
 
+/** The first problem of a priors file, which must be positioned at its entry. */
+function priorsProblem(priors: string) {
+  const r = parseCatalog(input(HEADER_CONDITIONS, priors));
+  if (r.ok) throw new Error('expected an error');
+  return r.diagnostics[0];
+}
+
 describe('conditions.tsv', () => {
   it('joins each row onto the nearest catalog line of its species, NaN elsewhere', () => {
     const r = parseCatalog(
@@ -95,9 +102,7 @@ describe('conditions.tsv', () => {
   });
 
   it('priors.yaml: intensities must name lab or a condition, positioned', () => {
-    const r = parseCatalog(input(HEADER_CONDITIONS, 'kinds:\n  flame:\n    intensities: oven\n'));
-    if (r.ok) throw new Error('expected an error');
-    expect(r.diagnostics[0]).toMatchObject({
+    expect(priorsProblem('kinds:\n  flame:\n    intensities: oven\n')).toMatchObject({
       file: 'priors.yaml',
       line: 3,
       field: 'kinds.flame.intensities',
@@ -105,11 +110,7 @@ describe('conditions.tsv', () => {
   });
 
   it('priors.yaml: a line scatter needs km_s in range, a reason and a source, positioned', () => {
-    const bad = parseCatalog(
-      input(HEADER_CONDITIONS, 'kinds:\n  galaxy:\n    line_scatter: { km_s: 9000, reason: r }\n'),
-    );
-    if (bad.ok) throw new Error('expected an error');
-    expect(bad.diagnostics[0]).toMatchObject({
+    expect(priorsProblem('kinds:\n  galaxy:\n    line_scatter: { km_s: 9000, reason: r }\n')).toMatchObject({
       file: 'priors.yaml',
       line: 3,
       field: 'kinds.galaxy.line_scatter',
@@ -126,11 +127,9 @@ describe('conditions.tsv', () => {
   });
 
   it('priors.yaml: others needs p in (0, 1), a reason and a source; a class with it names all it expects', () => {
-    const bad = parseCatalog(
-      input(HEADER_CONDITIONS, 'classes:\n  fluorescent:\n    others: { p: 2, reason: r, source: s }\n'),
-    );
-    if (bad.ok) throw new Error('expected an error');
-    expect(bad.diagnostics[0]).toMatchObject({
+    expect(
+      priorsProblem('classes:\n  fluorescent:\n    others: { p: 2, reason: r, source: s }\n'),
+    ).toMatchObject({
       file: 'priors.yaml',
       line: 3,
       field: 'classes.fluorescent.others',
